@@ -1,0 +1,97 @@
+/**
+ * The command-line program. Each command lives in its own module; this file wires options,
+ * turns the tool's own errors into one line and exit code 2, and any other failure into one
+ * line, a trace in a log file, and exit code 1.
+ */
+import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
+import { appendFileSync, mkdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { WaxwaneError } from '../errors.js';
+import { createReporter } from './reporter.js';
+import { runSimulate } from './simulate.js';
+import { VERSION } from '../version.js';
+
+/** Parses a whole number within bounds, for commander. */
+export function intOption(name: string, min: number, max = Number.MAX_SAFE_INTEGER) {
+  return (value: string): number => {
+    const v = Number(value);
+    if (!/^[+-]?\d+$/.test(value.trim()) || !Number.isSafeInteger(v) || v < min || v > max) {
+      throw new InvalidArgumentError(`${name} must be a whole number from ${min} to ${max}, got "${value}".`);
+    }
+    return v;
+  };
+}
+
+/** Parses a positive finite number, for commander. */
+export function positiveOption(name: string) {
+  return (value: string): number => {
+    const v = Number(value);
+    if (value.trim() === '' || !Number.isFinite(v) || !(v > 0)) {
+      throw new InvalidArgumentError(`${name} must be a positive number, got "${value}".`);
+    }
+    return v;
+  };
+}
+
+export function buildProgram(): Command {
+  const program = new Command();
+  program
+    .name('waxwane')
+    .description(
+      'Bayesian inference of the time-varying transmission rate of an epidemic from daily reported cases:\n' +
+        'SEIR dynamics, a random walk on log beta, reporting delay, under-ascertainment and\n' +
+        'negative-binomial noise, sampled by adaptive Metropolis with convergence diagnostics.\n' +
+        'Estimates are model-based; they do not replace local public-health authority and judgement.',
+    )
+    .version(VERSION)
+    .showHelpAfterError('(run with --help for usage)');
+
+  program
+    .command('simulate')
+    .description('simulate reported cases with known truth from a simulation scenario file')
+    .argument('<scenario>', 'simulation scenario (JSON; format in the README)')
+    .requiredOption('--out <dir>', 'output folder for cases.csv and truth.csv')
+    .addOption(new Option('--seed <n>', 'random seed').default(1).argParser(intOption('--seed', 0, 2 ** 32 - 1)))
+    .option('--force', 'write into a non-empty output folder', false)
+    .option('--quiet', 'print nothing but warnings and errors', false)
+    .action((scenario: string, opts: { out: string; seed: number; force: boolean; quiet: boolean }) => {
+      runSimulate(scenario, opts, createReporter({ quiet: opts.quiet }));
+    });
+
+  return program;
+}
+
+function logInternalError(e: unknown): string {
+  const dir = join(tmpdir(), 'waxwane-logs');
+  mkdirSync(dir, { recursive: true });
+  const file = join(dir, `error-${new Date().toISOString().replace(/[:.]/g, '-')}-${process.pid}.log`);
+  appendFileSync(file, `${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+  return file;
+}
+
+export async function main(argv: string[]): Promise<void> {
+  const program = buildProgram();
+  program.exitOverride();
+  program.configureOutput({ writeErr: (s) => process.stderr.write(s) });
+  for (const c of program.commands) c.exitOverride();
+  try {
+    await program.parseAsync(argv);
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      // help and version end with exit code 0; usage errors are the user's to fix: 2
+      process.exitCode = e.exitCode === 0 ? 0 : 2;
+      return;
+    }
+    if (e instanceof WaxwaneError) {
+      process.stderr.write(`waxwane: ${e.message}\n`);
+      process.exitCode = e.exitCode;
+      return;
+    }
+    const log = logInternalError(e);
+    process.stderr.write(
+      `waxwane: internal error: ${e instanceof Error ? e.message : String(e)} (full trace in ${log}; please report it)\n`,
+    );
+    process.exitCode = 1;
+  }
+}

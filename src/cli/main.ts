@@ -10,7 +10,12 @@ import { join } from 'node:path';
 import { WaxwaneError } from '../errors.js';
 import { createReporter } from './reporter.js';
 import { runSimulate } from './simulate.js';
+import { runFit } from './fit.js';
+import { availableParallelism } from 'node:os';
+import { DEFAULT_SAMPLER } from '../inference/fit.js';
 import { VERSION } from '../version.js';
+import type { FitCliOptions } from './fit.js';
+import { DEFAULT_LEVELS } from '../outputs/summary.js';
 
 /** Parses a whole number within bounds, for commander. */
 export function intOption(name: string, min: number, max = Number.MAX_SAFE_INTEGER) {
@@ -59,7 +64,43 @@ export function buildProgram(): Command {
       runSimulate(scenario, opts, createReporter({ quiet: opts.quiet }));
     });
 
+  program
+    .command('fit')
+    .description('fit the model to daily reported cases and write posterior summaries, diagnostics and draws')
+    .argument('<cases>', 'CSV of daily reported cases (ISO date column and count column; optional region column)')
+    .requiredOption('--out <dir>', 'output folder')
+    .option('--priors <set>', 'prior set: a shipped name (default, smooth, flexible, long-latent) or a JSON file', 'default')
+    .addOption(new Option('--population <n>', 'population N (or a "population" column in the data)').argParser(positiveOption('--population')))
+    .addOption(new Option('--chains <n>', 'number of chains').default(DEFAULT_SAMPLER.chains).argParser(intOption('--chains', 2, 64)))
+    .addOption(new Option('--warmup <n>', 'adaptive warm-up iterations per chain').default(DEFAULT_SAMPLER.warmup).argParser(intOption('--warmup', 100, 10_000_000)))
+    .addOption(new Option('--draws <n>', 'kept draws per chain').default(DEFAULT_SAMPLER.draws).argParser(intOption('--draws', 10, 1_000_000)))
+    .addOption(new Option('--thin <n>', 'keep every n-th sampling iteration').default(DEFAULT_SAMPLER.thin).argParser(intOption('--thin', 1, 10_000)))
+    .addOption(new Option('--seed <n>', 'random seed').default(1).argParser(intOption('--seed', 0, 2 ** 32 - 1)))
+    .addOption(new Option('--threads <n>', 'worker threads').default(availableParallelism(), 'number of cores').argParser(intOption('--threads', 1, 256)))
+    .addOption(new Option('--quantiles <list>', 'comma-separated quantile levels').default([...DEFAULT_LEVELS], DEFAULT_LEVELS.join(',')).argParser(levelsOption))
+    .option('--region <name>', 'region to fit when the file has a region column')
+    .option('--date-column <name>', 'name of the date column', 'date')
+    .option('--count-column <name>', 'name of the count column', 'cases')
+    .option('--region-column <name>', 'name of the region column', 'region')
+    .option('--require-converged', 'exit with code 3 when the chains have not converged', false)
+    .option('--force', 'write into a non-empty output folder', false)
+    .option('--quiet', 'print nothing but warnings and errors', false)
+    .action(async (cases: string, opts: FitCliOptions) => {
+      process.exitCode = await runFit(cases, opts, createReporter({ quiet: opts.quiet }));
+    });
+
   return program;
+}
+
+function levelsOption(value: string): number[] {
+  const parts = value.split(',').map((s) => s.trim());
+  const levels = parts.map(Number);
+  if (parts.some((s) => s === '') || levels.some((v) => !(v > 0 && v < 1))) {
+    throw new InvalidArgumentError(`--quantiles must be comma-separated levels between 0 and 1, e.g. 0.05,0.5,0.95; got "${value}".`);
+  }
+  const sorted = [...new Set(levels)].sort((a, b) => a - b);
+  if (sorted.length !== levels.length) throw new InvalidArgumentError(`--quantiles lists a level twice: "${value}".`);
+  return sorted;
 }
 
 function logInternalError(e: unknown): string {

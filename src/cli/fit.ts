@@ -1,0 +1,233 @@
+/**
+ * `waxwane fit CASES.csv --population N --out DIR`: validate everything, fit, summarise,
+ * write all outputs at once (nothing half-written), print the key results and every warning.
+ */
+import { performance } from 'node:perf_hooks';
+import { basename } from 'node:path';
+import { WaxwaneError } from '../errors.js';
+import { readCases, checkPopulation, type CaseSeries } from '../io/cases.js';
+import { dayOfWeek } from '../io/dates.js';
+import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
+import { prepareOutputDir, OutputSet } from '../io/atomic.js';
+import { fitPosterior, DEFAULT_SAMPLER, type SamplerOptions } from '../inference/fit.js';
+import { dailyDraws } from '../outputs/derived.js';
+import {
+  summaryRows,
+  summaryCsv,
+  diagnosticRows,
+  diagnosticsCsv,
+  drawsCsv,
+  isConverged,
+  CONVERGENCE,
+  type SummaryRow,
+} from '../outputs/summary.js';
+import { identification } from '../outputs/identification.js';
+import { formatNumber } from '../outputs/format.js';
+import { createRng, deriveSeed } from '../util/rng.js';
+import { VERSION } from '../version.js';
+import type { Reporter } from './reporter.js';
+
+export interface FitCliOptions {
+  priors: string;
+  population?: number;
+  out: string;
+  chains: number;
+  warmup: number;
+  draws: number;
+  thin: number;
+  seed: number;
+  threads: number;
+  quantiles: number[];
+  region?: string;
+  dateColumn: string;
+  countColumn: string;
+  regionColumn: string;
+  quiet: boolean;
+  requireConverged: boolean;
+  force: boolean;
+}
+
+export const CAUTION =
+  'These are model-based estimates resting on the assumptions stated in the model description ' +
+  '(SEIR dynamics, a smooth random walk in transmission, a fixed reporting delay, constant ascertainment). ' +
+  'They inform, and do not replace, the judgement of local public-health authorities and trained epidemiologists.';
+
+function selectSeries(series: CaseSeries[], region: string | undefined, file: string): CaseSeries {
+  if (region !== undefined) {
+    const s = series.find((x) => x.region === region);
+    if (s === undefined) {
+      const names = series.map((x) => x.region).filter((x) => x !== null);
+      throw new WaxwaneError(
+        names.length === 0
+          ? `${file}: --region "${region}" was given but the file has no region column; drop --region or name the column with --region-column`
+          : `${file}: no region "${region}" in the file (regions: ${names.slice(0, 10).join(', ')}${names.length > 10 ? ', ...' : ''}); choose one of them with --region`,
+      );
+    }
+    return s;
+  }
+  if (series.length > 1) {
+    const names = series.map((x) => x.region);
+    throw new WaxwaneError(
+      `${file}: the file holds ${series.length} regions (${names.slice(0, 10).join(', ')}${names.length > 10 ? ', ...' : ''}); choose one with --region`,
+    );
+  }
+  return series[0];
+}
+
+export async function runFit(casesFile: string, o: FitCliOptions, reporter: Reporter): Promise<number> {
+  const started = performance.now();
+  // 1. validate every input before anything is written
+  const data = readCases(casesFile, { dateColumn: o.dateColumn, countColumn: o.countColumn, regionColumn: o.regionColumn });
+  const series = selectSeries(data.series, o.region, casesFile);
+  const population = o.population ?? series.population;
+  if (population === undefined) {
+    throw new WaxwaneError(`${casesFile}: no population given; pass --population N or add a "population" column`);
+  }
+  checkPopulation(series, population, casesFile);
+  const priorPath = resolvePriorSetPath(o.priors);
+  const priorSet = resolvePriorSet(o.priors);
+  for (const w of data.warnings) reporter.warn(w);
+  prepareOutputDir(o.out, { force: o.force });
+
+  // 2. fit
+  const sampler: SamplerOptions = {
+    ...DEFAULT_SAMPLER,
+    chains: o.chains,
+    warmup: o.warmup,
+    draws: o.draws,
+    thin: o.thin,
+    seed: o.seed,
+    threads: o.threads,
+  };
+  const counts = Array.from(series.counts, (v) => (Number.isNaN(v) ? null : v)) as number[];
+  const input = { counts, population, firstWeekday: dayOfWeek(series.firstDate), priorSet };
+  reporter.info(
+    `fitting ${series.dates.length} days (${series.firstDate} to ${series.dates[series.dates.length - 1]})` +
+      `${series.region !== null ? ` of ${series.region}` : ''}: ${o.chains} chains x (${o.warmup} warm-up + ${o.draws * o.thin}) iterations`,
+  );
+  const iterationsDone = new Map<number, number>();
+  const totalIterations = o.chains * (o.warmup + o.draws * o.thin);
+  const fit = await fitPosterior(input, sampler, {
+    progress: (chain, iteration) => {
+      iterationsDone.set(chain, iteration);
+      let done = 0;
+      for (const v of iterationsDone.values()) done += v;
+      const pct = Math.floor((100 * done) / totalIterations);
+      const bar = '#'.repeat(Math.floor(pct / 4)).padEnd(25, '.');
+      reporter.progress(`sampling [${bar}] ${pct}%`);
+    },
+  });
+  reporter.done();
+
+  // 3. summarise
+  const model = fit.model;
+  const chains = fit.chains.map((c) => c.draws);
+  const diagnostics = diagnosticRows(model.layout, chains);
+  const converged = isConverged(diagnostics);
+  const allDraws = new Float64Array(chains.reduce((a, c) => a + c.length, 0));
+  {
+    let off = 0;
+    for (const c of chains) {
+      allDraws.set(c, off);
+      off += c.length;
+    }
+  }
+  const daily = dailyDraws(model, allDraws, input.firstWeekday, createRng(deriveSeed(o.seed, 0x9e37)));
+  const rows = summaryRows(model.layout, chains, daily, series.dates, o.quantiles);
+  const ident = identification(model, chains);
+  const warnings = [...data.warnings, ...fit.warnings];
+  const weak = ident.filter((x) => x.weak);
+  if (weak.length > 0) {
+    warnings.push(
+      `weakly identified by these data (posterior sd above half the prior sd): ${weak
+        .map((w) => `${w.parameter} (${formatNumber(w.posteriorSd / w.priorSd, 2)} of prior sd)`)
+        .join(', ')}; their intervals mostly restate the prior`,
+    );
+  }
+  const worstRhat = Math.max(...diagnostics.map((d) => d.rhat));
+  const minBulk = Math.min(...diagnostics.map((d) => d.ess_bulk));
+  const minTail = Math.min(...diagnostics.map((d) => d.ess_tail));
+  if (!converged) {
+    warnings.push(
+      `NOT CONVERGED: max R-hat ${formatNumber(worstRhat, 4)} (needs <= ${CONVERGENCE.maxRhat}), min bulk ESS ${Math.round(minBulk)}, ` +
+        `min tail ESS ${Math.round(minTail)} (need >= ${CONVERGENCE.minEss}); run longer (--warmup, --draws, --thin) before using these results`,
+    );
+  }
+
+  // 4. write everything at once
+  const out = new OutputSet(o.out);
+  out.add('summary.csv', summaryCsv(rows, o.quantiles));
+  out.add('diagnostics.csv', diagnosticsCsv(diagnostics));
+  out.add('draws.csv', drawsCsv(model.layout, chains, fit.chains.map((c) => c.logDensity)));
+  const run = {
+    tool: 'waxwane',
+    version: VERSION,
+    command: 'fit',
+    input: { file: basename(casesFile), sha256: data.sha256, region: series.region, first_date: series.firstDate, last_date: series.dates[series.dates.length - 1], days: series.dates.length, population },
+    priors: { file: basename(priorPath), set: priorSet },
+    options: {
+      chains: o.chains,
+      warmup: o.warmup,
+      draws: o.draws,
+      thin: o.thin,
+      seed: o.seed,
+      quantiles: o.quantiles,
+      date_column: o.dateColumn,
+      count_column: o.countColumn,
+      region_column: o.regionColumn,
+      require_converged: o.requireConverged,
+    },
+    threads: o.threads,
+    versions: { node: process.versions.node, waxwane: VERSION },
+    timings_seconds: {
+      prepare: round(fit.timings.prepareSeconds),
+      sampling: round(fit.timings.samplingSeconds),
+      total: round((performance.now() - started) / 1000),
+    },
+    mode_log_density: fit.modeLogDensity,
+    acceptance: fit.chains.map((c) => ({ warmup: round(c.acceptRateWarmup), sampling: round(c.acceptRateSampling), scale: round(c.finalScale) })),
+    converged,
+    convergence_rule: `every sampled parameter: R-hat <= ${CONVERGENCE.maxRhat}, bulk and tail ESS >= ${CONVERGENCE.minEss}`,
+    max_rhat: worstRhat,
+    min_ess_bulk: minBulk,
+    min_ess_tail: minTail,
+    identification: ident,
+    warnings,
+    caution: CAUTION,
+  };
+  out.add('run.json', JSON.stringify(run, null, 2) + '\n');
+  out.commit();
+
+  // 5. tell the user
+  printKeyResults(reporter, rows, series.dates[series.dates.length - 1]);
+  for (const w of warnings.slice(data.warnings.length)) reporter.warn(w);
+  reporter.info(
+    converged
+      ? `converged: max R-hat ${formatNumber(worstRhat, 4)}, min bulk ESS ${Math.round(minBulk)}, min tail ESS ${Math.round(minTail)}`
+      : 'not converged: see the warning above',
+  );
+  reporter.info(`outputs in ${o.out}/ (summary.csv, diagnostics.csv, draws.csv, run.json)`);
+  reporter.info(`caution: ${CAUTION}`);
+  return !converged && o.requireConverged ? 3 : 0;
+}
+
+function round(x: number): number {
+  return Number(x.toPrecision(4));
+}
+
+function printKeyResults(reporter: Reporter, rows: SummaryRow[], lastDate: string): void {
+  const pick = (q: string, date: string) => rows.find((r) => r.quantity === q && r.date === date);
+  const lines: string[] = [`key results (posterior median and 90% interval; last day ${lastDate}):`];
+  const fmt = (r: SummaryRow | undefined, digits = 3) =>
+    r === undefined ? 'n/a' : `${formatNumber(r.quantiles[Math.floor(r.quantiles.length / 2)], digits)}  [${formatNumber(r.quantiles[0], digits)}, ${formatNumber(r.quantiles[r.quantiles.length - 1], digits)}]`;
+  const items: Array<[string, string, string]> = [
+    ['effective reproduction R_t', 'effective_reproduction', lastDate],
+    ['growth rate per day', 'growth_rate', lastDate],
+    ['infections per day', 'infections', lastDate],
+    ['transmission rate beta', 'transmission_rate', lastDate],
+    ['ascertainment', 'ascertainment', ''],
+    ['walk scale', 'walk_scale', ''],
+  ];
+  for (const [label, q, d] of items) lines.push(`  ${label.padEnd(28)} ${fmt(pick(q, d))}`);
+  reporter.info(lines.join('\n'));
+}

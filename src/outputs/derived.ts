@@ -1,0 +1,92 @@
+/**
+ * Derived quantities for every kept posterior draw (MODEL.md section 5): the transmission
+ * rate, basic and effective reproduction numbers, growth rate, infections, onsets, expected
+ * reports and posterior predictive reports, per observed day.
+ */
+import type { EpidemicModel } from '../model/posterior.js';
+import { toNatural } from '../model/layout.js';
+import { fillWalk, fillBetaOverN } from '../model/transmission.js';
+import { runTrajectory, drawNegBin } from '../model/trajectory.js';
+import { growthRate } from '../model/growth.js';
+import type { Rng } from '../util/rng.js';
+
+export const DAILY_QUANTITIES = [
+  'transmission_rate',
+  'basic_reproduction',
+  'effective_reproduction',
+  'growth_rate',
+  'infections',
+  'onsets',
+  'expected_reports',
+  'predicted_reports',
+] as const;
+export type DailyQuantity = (typeof DAILY_QUANTITIES)[number];
+
+/** Per quantity, a draws x days matrix (row-major: draw d, day t at d * days + t). */
+export type DailyDraws = Record<DailyQuantity, Float64Array>;
+
+/** Weekday multipliers exp(v_1..v_6, -sum v) or null. */
+export function weekdayMultipliers(weekday: number[]): number[] | null {
+  if (weekday.length === 0) return null;
+  const sum = weekday.reduce((a, b) => a + b, 0);
+  return [...weekday.map((v) => Math.exp(v)), Math.exp(-sum)];
+}
+
+/** Daily beta over the simulated window for one unconstrained vector. */
+export function dailyBeta(model: EpidemicModel, theta: ArrayLike<number>): Float64Array {
+  const L = model.layout;
+  const s = model.priorSet.model;
+  const walk = new Float64Array(L.knots);
+  fillWalk(Math.exp(theta[L.walkScale]), theta, L.firstStep, L.knots, walk);
+  const beta = new Float64Array(model.simDays);
+  fillBetaOverN(theta[0] - theta[L.infectiousDays], walk, L.knots, s.knot_days, s.interpolation === 'linear', 1, model.simDays, beta);
+  return beta;
+}
+
+/**
+ * Computes every daily quantity for each draw (rows of `draws`, row-major draws x dim).
+ * `rng` gives the negative-binomial noise of the predicted reports.
+ */
+export function dailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekday: number, rng: Rng): DailyDraws {
+  const dim = model.layout.dim;
+  const n = draws.length / dim;
+  const T = model.days;
+  const S0 = model.seedDays;
+  const out = Object.fromEntries(DAILY_QUANTITIES.map((q) => [q, new Float64Array(n * T)])) as DailyDraws;
+  const m = model.priorSet.model.latent_stages;
+  const nI = model.priorSet.model.infectious_stages;
+  for (let d = 0; d < n; d++) {
+    const theta = draws.subarray(d * dim, (d + 1) * dim);
+    const p = toNatural(model.layout, theta);
+    const traj = runTrajectory(
+      model.priorSet.model,
+      model.delay,
+      {
+        population: model.population,
+        seedInfected: p.seed_infected,
+        latentDays: p.latent_days,
+        infectiousDays: p.infectious_days,
+        ascertainment: p.ascertainment,
+        weekdayMultipliers: weekdayMultipliers(p.weekday),
+      },
+      dailyBeta(model, theta),
+      firstWeekday,
+    );
+    const row = d * T;
+    for (let t = 0; t < T; t++) {
+      const beta = traj.transmissionRate[S0 + t];
+      const r0 = beta * p.infectious_days;
+      const reff = (r0 * traj.susceptible[S0 + t]) / model.population;
+      const mu = traj.expectedReports[t];
+      out.transmission_rate[row + t] = beta;
+      out.basic_reproduction[row + t] = r0;
+      out.effective_reproduction[row + t] = reff;
+      out.growth_rate[row + t] = growthRate(reff, p.latent_days, p.infectious_days, m, nI);
+      out.infections[row + t] = traj.infections[S0 + t];
+      out.onsets[row + t] = traj.onsets[S0 + t];
+      out.expected_reports[row + t] = mu;
+      out.predicted_reports[row + t] = drawNegBin(rng, mu, p.dispersion);
+    }
+  }
+  return out;
+}

@@ -46,3 +46,6 @@ export function mersenneTwister(seed: number | Uint32Array, state?: Uint32Array)
     ? mt19937.factory({ seed })
     : mt19937.factory({ state, copy: true });
 }
+
+/** ln B(a, b), the log of the beta function (accurate for large a and b too). */
+export const betaln: (a: number, b: number) => number = require('@stdlib/math/base/special/betaln');

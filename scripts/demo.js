@@ -1,0 +1,27 @@
+#!/usr/bin/env node
+// `npm run demo`: fits the bundled demo place (data-demo/larkmere, an invented town simulated by
+// `waxwane simulate`) and writes the outputs under demo-output/larkmere/.
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { dirname, join } from 'node:path';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const bin = join(root, 'bin', 'waxwane.js');
+
+function waxwane(args) {
+  console.error(`\n$ waxwane ${args.join(' ')}`);
+  const r = spawnSync(process.execPath, [bin, ...args], { cwd: root, stdio: 'inherit' });
+  if (r.status !== 0) {
+    console.error(`demo step failed with exit code ${r.status}`);
+    process.exit(r.status ?? 1);
+  }
+}
+
+waxwane([
+  'fit', 'data-demo/larkmere/cases.csv',
+  '--population', '320000',
+  '--out', 'demo-output/larkmere',
+  '--seed', '7',
+  '--force',
+]);
+console.error('\nDemo outputs: demo-output/larkmere/ (summary.csv, diagnostics.csv, draws.csv, run.json)');

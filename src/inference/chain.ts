@@ -1,0 +1,342 @@
+/**
+ * One resumable chain: adaptive warm-up, then a frozen random-walk kernel whose thinned draws
+ * are kept. The caller advances it in slices (`run(steps)`), reporting progress and saving a
+ * JSON snapshot between slices; `ChainRunner.restore` continues bit for bit.
+ */
+import { WaxwaneError } from '../errors.js';
+import { restoreRng, type Rng } from '../util/rng.js';
+import {
+  adaptationFromJSON,
+  adaptationToJSON,
+  adaptiveMetropolis,
+  type AdaptationJSON,
+  type AdaptationMachine,
+  type AdaptationSettings,
+  type AdaptationState,
+  type FrozenProposal,
+} from './adaptation.js';
+import { sample } from './driver.js';
+import { buildMetropolisKernel, buildRwmKernel, initState } from './kernel.js';
+import { randomWalkInto } from './proposal.js';
+import type { ChainState, Kernel, LogDensity } from './types.js';
+
+export interface ChainOptions {
+  logDensity: LogDensity;
+  /** starting position; its log density must be finite */
+  start: Float64Array;
+  /** initial proposal shape (row-major dim x dim, positive definite), e.g. the Laplace covariance */
+  initialCov: Float64Array;
+  /** adaptive warm-up iterations (discarded) */
+  warmup: number;
+  /** kept draws */
+  draws: number;
+  /** keep every `thin`-th sampling iteration (default 1); sampling runs draws * thin iterations */
+  thin?: number;
+  rng: Rng;
+  /** adaptation tuning; `resetAt` defaults to a quarter of warm-up */
+  adaptation?: Partial<AdaptationSettings>;
+  /** starting global scale (default 2.38 / sqrt(dim)) */
+  initialScale?: number;
+}
+
+/** Everything needed to continue a chain, as plain JSON. */
+export interface ChainSnapshot {
+  version: 1;
+  dim: number;
+  warmup: number;
+  draws: number;
+  thin: number;
+  /** iterations done (warm-up and sampling) */
+  iteration: number;
+  position: number[];
+  logDensity: number;
+  adaptation: AdaptationJSON;
+  /** the frozen proposal once warm-up has ended, else null */
+  frozen: { cholesky: number[]; scale: number } | null;
+  /** Mersenne Twister state */
+  rng: number[];
+  acceptedWarmup: number;
+  acceptedSampling: number;
+  /** kept draws so far, row-major (kept x dim) */
+  keptDraws: number[];
+  keptLogDensity: number[];
+}
+
+export interface ChainResult {
+  /** kept draws, row-major (draws x dim) */
+  draws: Float64Array;
+  /** log density of each kept draw */
+  logDensity: Float64Array;
+  /** fraction of warm-up proposals accepted (NaN with no warm-up) */
+  acceptRateWarmup: number;
+  /** fraction of sampling proposals accepted, over all draws * thin iterations */
+  acceptRateSampling: number;
+  /** global scale of the frozen proposal */
+  finalScale: number;
+}
+
+/** The runner's working parts; one object, so `restore` can rebuild it without the constructor. */
+interface Core {
+  dim: number;
+  warmup: number;
+  draws: number;
+  thin: number;
+  logDensity: LogDensity;
+  rng: Rng;
+  machine: AdaptationMachine;
+  adapt: AdaptationState;
+  state: ChainState;
+  warmKernel: Kernel;
+  frozen: FrozenProposal | null;
+  sampleKernel: Kernel | null;
+  keptDraws: Float64Array;
+  keptLogDensity: Float64Array;
+  iteration: number;
+  acceptedWarmup: number;
+  acceptedSampling: number;
+  kept: number;
+}
+
+/**
+ * A single chain advanced in slices.
+ *
+ * @example
+ *   const runner = new ChainRunner({ logDensity, start, initialCov, warmup: 1000, draws: 1000, rng });
+ *   while (!runner.done) { runner.run(500); save(JSON.stringify(runner.snapshot())); }
+ *   const { draws } = runner.result();
+ */
+export class ChainRunner {
+  private core: Core;
+
+  constructor(options: ChainOptions) {
+    const { logDensity, start, initialCov, rng } = options;
+    const thin = options.thin ?? 1;
+    checkCount('warmup', options.warmup, 0);
+    checkCount('draws', options.draws, 0);
+    checkCount('thin', thin, 1);
+    const dim = start.length;
+    if (dim < 1) throw new WaxwaneError('start point is empty; it needs one value per parameter');
+    const state = initState(logDensity, start);
+    if (!Number.isFinite(state.logDensity)) {
+      throw new WaxwaneError(`start point has log density ${state.logDensity}; start inside the support (for example at the posterior mode)`);
+    }
+    const machine = adaptiveMetropolis({ resetAt: Math.floor(options.warmup / 4), ...options.adaptation });
+    const adapt = machine.init(dim, initialCov, options.initialScale);
+    this.core = assemble({
+      dim,
+      warmup: options.warmup,
+      draws: options.draws,
+      thin,
+      logDensity,
+      rng,
+      machine,
+      adapt,
+      state,
+      frozen: null,
+      keptDraws: new Float64Array(options.draws * dim),
+      keptLogDensity: new Float64Array(options.draws),
+      iteration: 0,
+      acceptedWarmup: 0,
+      acceptedSampling: 0,
+      kept: 0,
+    });
+    if (options.warmup === 0) freeze(this.core);
+  }
+
+  get dim(): number {
+    return this.core.dim;
+  }
+
+  /** Iterations in all: warm-up plus draws * thin. */
+  get totalIterations(): number {
+    return this.core.warmup + this.core.draws * this.core.thin;
+  }
+
+  /** Iterations done so far. */
+  get iteration(): number {
+    return this.core.iteration;
+  }
+
+  get done(): boolean {
+    return this.core.iteration >= this.totalIterations;
+  }
+
+  /** True while adapting. */
+  get warmingUp(): boolean {
+    return this.core.iteration < this.core.warmup;
+  }
+
+  /** The current position and log density (a copy). */
+  get current(): ChainState {
+    const { state } = this.core;
+    return { position: new Float64Array(state.position), logDensity: state.logDensity };
+  }
+
+  /**
+   * Advances up to `steps` iterations (fewer at the end), crossing from warm-up to sampling
+   * when due. Returns the number of iterations done.
+   */
+  run(steps: number): number {
+    if (!Number.isInteger(steps) || steps < 0) throw new RangeError(`steps must be a non-negative integer, got ${steps}`);
+    const c = this.core;
+    const todo = Math.min(steps, this.totalIterations - c.iteration);
+    let left = todo;
+    while (left > 0) {
+      if (c.iteration < c.warmup) {
+        const n = Math.min(left, c.warmup - c.iteration);
+        for (const { state, info } of sample(c.warmKernel, c.state, c.rng, n)) {
+          c.state = state;
+          c.adapt = c.machine.update(c.adapt, state, info);
+          if (info.accepted) c.acceptedWarmup += 1;
+          c.iteration += 1;
+        }
+        left -= n;
+        if (c.iteration === c.warmup) freeze(c);
+      } else {
+        for (const { state, info } of sample(c.sampleKernel!, c.state, c.rng, left)) {
+          c.state = state;
+          if (info.accepted) c.acceptedSampling += 1;
+          c.iteration += 1;
+          if ((c.iteration - c.warmup) % c.thin === 0) {
+            c.keptDraws.set(state.position, c.kept * c.dim);
+            c.keptLogDensity[c.kept] = state.logDensity;
+            c.kept += 1;
+          }
+        }
+        left = 0;
+      }
+    }
+    return todo;
+  }
+
+  /** The result; only once the chain is done. */
+  result(): ChainResult {
+    if (!this.done) throw new Error(`chain not finished: ${this.iteration} of ${this.totalIterations} iterations done`);
+    const c = this.core;
+    return {
+      draws: new Float64Array(c.keptDraws),
+      logDensity: new Float64Array(c.keptLogDensity),
+      acceptRateWarmup: c.warmup > 0 ? c.acceptedWarmup / c.warmup : NaN,
+      acceptRateSampling: c.draws > 0 ? c.acceptedSampling / (c.draws * c.thin) : NaN,
+      finalScale: c.frozen!.scale,
+    };
+  }
+
+  /** Everything needed to continue, as plain JSON-safe values (copies). */
+  snapshot(): ChainSnapshot {
+    const c = this.core;
+    return {
+      version: 1,
+      dim: c.dim,
+      warmup: c.warmup,
+      draws: c.draws,
+      thin: c.thin,
+      iteration: c.iteration,
+      position: Array.from(c.state.position),
+      logDensity: c.state.logDensity,
+      adaptation: adaptationToJSON(c.adapt),
+      frozen: c.frozen === null ? null : { cholesky: Array.from(c.frozen.cholesky), scale: c.frozen.scale },
+      rng: Array.from(c.rng.state()),
+      acceptedWarmup: c.acceptedWarmup,
+      acceptedSampling: c.acceptedSampling,
+      keptDraws: Array.from(c.keptDraws.subarray(0, c.kept * c.dim)),
+      keptLogDensity: Array.from(c.keptLogDensity.subarray(0, c.kept)),
+    };
+  }
+
+  /**
+   * Continues a chain from a snapshot with the same log density. The log density at the saved
+   * position is re-evaluated and must equal the saved value exactly (a different model or data
+   * would otherwise continue silently); a malformed snapshot is a `WaxwaneError`.
+   */
+  static restore(snapshot: ChainSnapshot, logDensity: LogDensity): ChainRunner {
+    const s = validateSnapshot(snapshot);
+    const state = initState(logDensity, Float64Array.from(s.position));
+    if (!Object.is(state.logDensity, s.logDensity)) {
+      throw new WaxwaneError(
+        `checkpoint does not match the model: log density at the saved position is ${state.logDensity}, the checkpoint says ${s.logDensity}`,
+      );
+    }
+    const adapt = adaptationFromJSON(s.adaptation);
+    const keptDraws = new Float64Array(s.draws * s.dim);
+    const keptLogDensity = new Float64Array(s.draws);
+    keptDraws.set(s.keptDraws);
+    keptLogDensity.set(s.keptLogDensity);
+    const core = assemble({
+      dim: s.dim,
+      warmup: s.warmup,
+      draws: s.draws,
+      thin: s.thin,
+      logDensity,
+      rng: restoreRng(Uint32Array.from(s.rng)),
+      machine: adaptiveMetropolis(adapt.settings),
+      adapt,
+      state,
+      frozen: null,
+      keptDraws,
+      keptLogDensity,
+      iteration: s.iteration,
+      acceptedWarmup: s.acceptedWarmup,
+      acceptedSampling: s.acceptedSampling,
+      kept: s.keptLogDensity.length,
+    });
+    if (s.frozen !== null) install(core, { cholesky: Float64Array.from(s.frozen.cholesky), scale: s.frozen.scale });
+    const runner = Object.create(ChainRunner.prototype) as ChainRunner;
+    runner.core = core;
+    return runner;
+  }
+}
+
+/** Adds the warm-up kernel: a random walk reading the adaptation's current factor and scale. */
+function assemble(parts: Omit<Core, 'warmKernel' | 'sampleKernel'>): Core {
+  const core = parts as Core;
+  const z = new Float64Array(core.dim);
+  core.sampleKernel = null;
+  core.warmKernel = buildMetropolisKernel(
+    core.logDensity,
+    (rng, x, out) => randomWalkInto(rng, x, out, core.adapt.cholesky, Math.exp(core.adapt.logScale), core.dim, z),
+    core.dim,
+  );
+  return core;
+}
+
+function freeze(core: Core): void {
+  install(core, core.machine.final(core.adapt));
+}
+
+function install(core: Core, frozen: FrozenProposal): void {
+  core.frozen = frozen;
+  core.sampleKernel = buildRwmKernel(core.logDensity, { cholesky: frozen.cholesky, scale: frozen.scale, dim: core.dim });
+}
+
+function checkCount(name: string, value: number, min: number): void {
+  if (!Number.isInteger(value) || value < min) {
+    throw new WaxwaneError(`${name} must be an integer >= ${min}, got ${value}`);
+  }
+}
+
+function validateSnapshot(s: ChainSnapshot): ChainSnapshot {
+  const bad = (what: string) => new WaxwaneError(`checkpoint: ${what}; the file is damaged or from another version, start the run afresh`);
+  if (s === null || typeof s !== 'object') throw bad('not an object');
+  if (s.version !== 1) throw bad(`unknown version ${String(s.version)}`);
+  const isCount = (v: unknown, min = 0) => Number.isInteger(v) && (v as number) >= min;
+  if (!isCount(s.dim, 1) || !isCount(s.warmup) || !isCount(s.draws) || !isCount(s.thin, 1)) throw bad('bad dim, warmup, draws or thin');
+  const total = s.warmup + s.draws * s.thin;
+  if (!isCount(s.iteration) || s.iteration > total) throw bad('iteration out of range');
+  const finiteArray = (v: unknown, len: number) =>
+    Array.isArray(v) && v.length === len && v.every((x) => typeof x === 'number' && Number.isFinite(x));
+  if (!finiteArray(s.position, s.dim)) throw bad(`position must hold ${s.dim} finite numbers`);
+  if (typeof s.logDensity !== 'number' || !Number.isFinite(s.logDensity)) throw bad('log density is not finite');
+  const kept = s.iteration > s.warmup ? Math.floor((s.iteration - s.warmup) / s.thin) : 0;
+  if (!finiteArray(s.keptLogDensity, kept) || !finiteArray(s.keptDraws, kept * s.dim)) throw bad(`expected ${kept} kept draws`);
+  if (!isCount(s.acceptedWarmup) || !isCount(s.acceptedSampling)) throw bad('bad acceptance counts');
+  if (!Array.isArray(s.rng) || !s.rng.every((x) => Number.isInteger(x) && x >= 0 && x <= 0xffffffff)) throw bad('bad generator state');
+  const frozenDue = s.iteration >= s.warmup;
+  if (frozenDue !== (s.frozen !== null)) throw bad(frozenDue ? 'frozen proposal missing' : 'frozen proposal present during warm-up');
+  if (s.frozen !== null) {
+    if (!finiteArray(s.frozen.cholesky, s.dim * s.dim) || !(s.frozen.scale > 0)) throw bad('bad frozen proposal');
+  }
+  if (s.adaptation?.dim !== s.dim) throw bad('adaptation state has the wrong dimension');
+  if (s.adaptation.t !== Math.min(s.iteration, s.warmup)) throw bad('adaptation state does not match the iteration');
+  return s;
+}

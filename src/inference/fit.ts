@@ -12,6 +12,7 @@ import { findMode } from './optimize.js';
 import { laplaceCovariance, dispersedStarts } from './laplace.js';
 import { runChainJobs } from './pool.js';
 import type { EpidemicModel } from '../model/posterior.js';
+import { createSamplingSpace } from '../model/sampling-space.js';
 
 export interface SamplerOptions {
   chains: number;
@@ -40,6 +41,7 @@ export const DEFAULT_SAMPLER: SamplerOptions = {
 
 export interface PreparedFit {
   model: EpidemicModel;
+  /** the posterior mode in the sampler's coordinates (model/sampling-space.ts) */
   mode: Float64Array;
   modeLogDensity: number;
   laplaceAdjusted: boolean;
@@ -75,22 +77,29 @@ function optimizerStarts(model: EpidemicModel, count: number, seed: number): Flo
 
 export function prepareFit(input: ModelInput, options: SamplerOptions): PreparedFit {
   const model = modelFromInput(input);
+  const space = createSamplingSpace(model);
   const warnings: string[] = [];
-  const mode = findMode(model.logDensity, optimizerStarts(model, options.optimizerStarts, options.seed));
+  const starts = optimizerStarts(model, options.optimizerStarts, options.seed)
+    .map((theta) => space.fromTheta(theta))
+    .filter((y): y is Float64Array => y !== null);
+  if (starts.length === 0) {
+    throw new WaxwaneError('the epidemic cannot be simulated from any starting point; check the data and the population');
+  }
+  const mode = findMode(space.logDensity, starts, { maxIterations: 2000, functionTolerance: 1e-10 });
   if (!Number.isFinite(mode.logDensity)) {
     throw new WaxwaneError('no parameter vector with a finite posterior density was found; check the data and the population');
   }
   if (!mode.converged) warnings.push(`the optimiser stopped before converging (${mode.reason}); the chains start from its best point`);
-  const laplace = laplaceCovariance(model.logDensity, mode.position);
+  const laplace = laplaceCovariance(space.logDensity, mode.position);
   if (laplace.adjusted) warnings.push('the Hessian at the mode was not positive definite and was adjusted for the initial proposal');
-  const starts = dispersedStarts(
-    model.logDensity,
+  const chainStarts = dispersedStarts(
+    space.logDensity,
     createRng(deriveSeed(options.seed, 0x5747)),
     mode.position,
     laplace.covariance,
     options.chains,
   );
-  const jobs: ChainJob[] = starts.map((start, chain) => ({
+  const jobs: ChainJob[] = chainStarts.map((start, chain) => ({
     chain,
     model: input,
     start: Array.from(start),

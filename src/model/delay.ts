@@ -10,7 +10,7 @@ import { gammaCdf, lognormalCdf } from '../util/stdlib.js';
  * given mean and sd (sigma^2 = ln(1 + sd^2/mean^2), mu = ln(mean) - sigma^2/2). The moment
  * relations are the standard ones for both families.
  *
- * @example discretiseDelay({ family: 'gamma', mean: 5, sd: 3, max_days: 21 })[0] is about 0.0431
+ * @example discretiseDelay({ family: 'gamma', mean: 5, sd: 3, max_days: 21 })[0] is about 0.0286
  */
 export function discretiseDelay(spec: DelaySpec): Float64Array {
   const { mean, sd } = spec;

@@ -116,6 +116,11 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
       const bar = '#'.repeat(Math.floor(pct / 4)).padEnd(25, '.');
       reporter.progress(`sampling [${bar}] ${pct}%`);
     },
+  }).catch((e: unknown) => {
+    reporter.done(); // end an open progress line, so the error gets a line of its own
+    // the fit's own refusals (e.g. no start point with a finite density) come from the data
+    if (!(e instanceof WaxwaneError)) throw e;
+    throw new WaxwaneError(`${casesFile}, population ${population}: ${e.message}`, e.exitCode);
   });
   reporter.done();
 

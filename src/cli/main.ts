@@ -4,9 +4,9 @@
  * line, a trace in a log file, and exit code 1.
  */
 import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
-import { appendFileSync, mkdirSync } from 'node:fs';
+import { appendFileSync, existsSync, mkdirSync, rmdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { WaxwaneError } from '../errors.js';
 import { createReporter } from './reporter.js';
 import { runSimulate } from './simulate.js';
@@ -60,8 +60,8 @@ export function buildProgram(): Command {
     .addOption(new Option('--seed <n>', 'random seed').default(1).argParser(intOption('--seed', 0, 2 ** 32 - 1)))
     .option('--force', 'write into a non-empty output folder', false)
     .option('--quiet', 'print nothing but warnings and errors', false)
-    .action((scenario: string, opts: { out: string; seed: number; force: boolean; quiet: boolean }) => {
-      runSimulate(scenario, opts, createReporter({ quiet: opts.quiet }));
+    .action(async (scenario: string, opts: { out: string; seed: number; force: boolean; quiet: boolean }) => {
+      await leavingNoFolderOnFailure(opts.out, () => runSimulate(scenario, opts, createReporter({ quiet: opts.quiet })));
     });
 
   program
@@ -86,7 +86,7 @@ export function buildProgram(): Command {
     .option('--force', 'write into a non-empty output folder', false)
     .option('--quiet', 'print nothing but warnings and errors', false)
     .action(async (cases: string, opts: FitCliOptions) => {
-      process.exitCode = await runFit(cases, opts, createReporter({ quiet: opts.quiet }));
+      process.exitCode = await leavingNoFolderOnFailure(opts.out, () => runFit(cases, opts, createReporter({ quiet: opts.quiet })));
     });
 
   return program;
@@ -103,6 +103,34 @@ function levelsOption(value: string): number[] {
   return sorted;
 }
 
+/**
+ * Runs a command that writes into the folder `out`. The commands create `out` (and missing
+ * parents) before their long work, to fail early on a folder that cannot be made; if the
+ * command then fails, the folders this run created are removed again, deepest first and only
+ * while empty (rmdir refuses a non-empty folder), so a failed run leaves nothing behind.
+ */
+async function leavingNoFolderOnFailure<T>(out: string, run: () => T | Promise<T>): Promise<T> {
+  const missing: string[] = [];
+  for (let d = resolve(out); !existsSync(d) && dirname(d) !== d; d = dirname(d)) missing.push(d);
+  try {
+    return await run();
+  } catch (e) {
+    for (const d of missing) {
+      try {
+        rmdirSync(d);
+      } catch {
+        break; // not empty, or never created: leave it and everything above it
+      }
+    }
+    throw e;
+  }
+}
+
+/** A message on one line: line breaks (e.g. quoted from a parser) become spaces. */
+function oneLine(message: string): string {
+  return message.replace(/\s*[\r\n]+\s*/g, ' ');
+}
+
 function logInternalError(e: unknown): string {
   const dir = join(tmpdir(), 'waxwane-logs');
   mkdirSync(dir, { recursive: true });
@@ -114,8 +142,14 @@ function logInternalError(e: unknown): string {
 export async function main(argv: string[]): Promise<void> {
   const program = buildProgram();
   program.exitOverride();
-  program.configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  for (const c of program.commands) c.exitOverride();
+  // every message line of the tool starts with "waxwane:", commander's usage errors too;
+  // subcommands copied the output settings when they were made, so each gets them here
+  const output = {
+    writeErr: (s: string) => process.stderr.write(s),
+    outputError: (s: string, write: (s: string) => void) => write(`waxwane: ${s.replace(/^error: /, '')}`),
+  };
+  program.configureOutput(output);
+  for (const c of program.commands) c.exitOverride().configureOutput(output);
   try {
     await program.parseAsync(argv);
   } catch (e) {
@@ -125,13 +159,13 @@ export async function main(argv: string[]): Promise<void> {
       return;
     }
     if (e instanceof WaxwaneError) {
-      process.stderr.write(`waxwane: ${e.message}\n`);
+      process.stderr.write(`waxwane: ${oneLine(e.message)}\n`);
       process.exitCode = e.exitCode;
       return;
     }
     const log = logInternalError(e);
     process.stderr.write(
-      `waxwane: internal error: ${e instanceof Error ? e.message : String(e)} (full trace in ${log}; please report it)\n`,
+      `waxwane: internal error: ${oneLine(e instanceof Error ? e.message : String(e))} (full trace in ${log}; please report it)\n`,
     );
     process.exitCode = 1;
   }

@@ -1,4 +1,6 @@
+import { inputError } from '../errors.js';
 import { readSimScenario } from '../io/sim-scenario.js';
+import { MAX_DAY, isoFromDay, parseIsoDate } from '../io/dates.js';
 import { simulatePlace } from '../model/simulate.js';
 import { createRng, deriveSeed } from '../util/rng.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
@@ -14,12 +16,31 @@ export interface SimulateOptions {
 /** `waxwane simulate SCENARIO --out DIR`: writes cases.csv and truth.csv. */
 export function runSimulate(scenarioFile: string, options: SimulateOptions, reporter: Reporter): void {
   const scenario = readSimScenario(scenarioFile);
+  const lastDay = (parseIsoDate(scenario.start_date) as number) + scenario.days - 1;
+  if (lastDay > MAX_DAY) {
+    throw inputError(
+      { file: scenarioFile, field: 'days' },
+      `${scenario.days} days from start_date ${scenario.start_date} run past ${isoFromDay(MAX_DAY)}`,
+      'choose an earlier start_date or fewer days',
+    );
+  }
   prepareOutputDir(options.out, { force: options.force });
   const withRegion = scenario.places.length > 1;
   const caseRows: string[][] = [];
   const truthRows: string[][] = [];
   scenario.places.forEach((place, i) => {
-    const sim = simulatePlace(scenario, place, createRng(deriveSeed(options.seed, i)));
+    let sim: ReturnType<typeof simulatePlace>;
+    try {
+      sim = simulatePlace(scenario, place, createRng(deriveSeed(options.seed, i)));
+    } catch (e) {
+      // the simulator refuses a trajectory whose compartments turn negative or non-finite
+      if (!(e instanceof RangeError)) throw e;
+      throw inputError(
+        { file: scenarioFile, field: `places[${i}]` },
+        `the epidemic of "${place.name}" cannot be simulated (${e.message}): the time step is too coarse for its periods and reproduction numbers`,
+        'raise model.substeps, or lengthen latent_days and infectious_days',
+      );
+    }
     const tr = sim.truth;
     for (let t = 0; t < sim.dates.length; t++) {
       const region = withRegion ? [place.name] : [];

@@ -31,6 +31,7 @@ import { readFileSync } from 'node:fs';
 import { WaxwaneError, inputError } from '../errors.js';
 import type { ModelSettings } from '../model/prior-set.js';
 import { parseIsoDate } from './dates.js';
+import { readJsonDocument } from './json.js';
 
 export interface SimPlace {
   name: string;
@@ -66,7 +67,6 @@ export const DEFAULT_SIM_MODEL: ModelSettings = {
 
 type Json = unknown;
 const isObject = (v: Json): v is Record<string, Json> => typeof v === 'object' && v !== null && !Array.isArray(v);
-const FORBIDDEN = new Set(['__proto__', 'constructor', 'prototype']);
 
 export function readSimScenario(file: string): SimScenario {
   let text: string;
@@ -79,18 +79,12 @@ export function readSimScenario(file: string): SimScenario {
 }
 
 export function parseSimScenario(text: string, file: string): SimScenario {
-  let raw: Json;
-  try {
-    raw = JSON.parse(text.replace(/^\uFEFF/, ''), (key, value) => {
-      if (FORBIDDEN.has(key)) throw new WaxwaneError(`${file}: key "${key}" is not allowed; remove it`);
-      return value;
-    });
-  } catch (e) {
-    if (e instanceof WaxwaneError) throw e;
-    throw new WaxwaneError(`${file}: not valid JSON (${(e as Error).message}); fix the syntax`);
-  }
+  const raw: Record<string, Json> = readJsonDocument(text, file, {
+    what: 'a simulation scenario',
+    emptyFix: 'write a scenario there (copy data-demo/scenarios/larkmere.json as a start)',
+    layoutHint: 'see data-demo/scenarios/larkmere.json for the layout',
+  });
   const err = (field: string, what: string, fix: string) => inputError({ file, field }, what, fix);
-  if (!isObject(raw)) throw new WaxwaneError(`${file}: a scenario must be a JSON object; see the format in the README`);
   const allowed = ['$schema', '$comment', 'description', 'start_date', 'days', 'model', 'places'];
   for (const k of Object.keys(raw)) {
     if (!allowed.includes(k)) throw err(k, 'unknown field', `allowed fields: ${allowed.join(', ')}`);

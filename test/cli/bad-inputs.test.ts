@@ -299,13 +299,13 @@ const simulateRows: Row[] = [
     name: 'not JSON (a CSV file)',
     files: { 'scenario.json': 'date,cases\n2031-02-03,3\n' },
     args: simulate(),
-    message: /scenario\.json: not valid JSON \(.*\); fix the syntax/,
+    message: /scenario\.json, line 1: invalid JSON at column \d+: .*; fix the syntax there/,
   },
   {
     name: 'empty file',
     files: { 'scenario.json': '' },
     args: simulate(),
-    message: /scenario\.json: not valid JSON \(.*\); fix the syntax/,
+    message: /scenario\.json: the file is empty; write a scenario there/,
   },
   {
     name: 'unknown field',
@@ -354,7 +354,7 @@ const simulateRows: Row[] = [
     name: '__proto__ key',
     files: { 'scenario.json': scenario(() => {}).replace('"places": [\n    {', '"places": [\n    {\n      "__proto__": { "population": 5 },') },
     args: simulate(),
-    message: /scenario\.json: key "__proto__" is not allowed; remove it/,
+    message: /scenario\.json, field "places\[0\]\.__proto__": the key "__proto__" is not allowed .*; remove it/,
   },
   {
     name: 'dates running past 9999-12-31',

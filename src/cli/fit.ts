@@ -22,7 +22,7 @@ import {
   type SummaryRow,
 } from '../outputs/summary.js';
 import { identification } from '../outputs/identification.js';
-import { formatNumber } from '../outputs/format.js';
+import { formatNumber, toCsv } from '../outputs/format.js';
 import { createRng, deriveSeed } from '../util/rng.js';
 import { VERSION } from '../version.js';
 import type { Reporter } from './reporter.js';
@@ -164,6 +164,8 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
   out.add('summary.csv', summaryCsv(rows, o.quantiles));
   out.add('diagnostics.csv', diagnosticsCsv(diagnostics));
   out.add('draws.csv', drawsCsv(model.layout, chains, fit.chains.map((c) => c.logDensity)));
+  // the series as fitted (after sorting and gap filling), so later commands need only the run folder
+  out.add('data.csv', toCsv(['date', 'cases'], series.dates.map((d, t) => [d, Number.isNaN(series.counts[t]) ? '' : String(series.counts[t])])));
   const run = {
     tool: 'waxwane',
     version: VERSION,
@@ -211,7 +213,7 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
       ? `converged: max R-hat ${formatNumber(worstRhat, 4)}, min bulk ESS ${Math.round(minBulk)}, min tail ESS ${Math.round(minTail)}`
       : 'not converged: see the warning above',
   );
-  reporter.info(`outputs in ${o.out}/ (summary.csv, diagnostics.csv, draws.csv, run.json)`);
+  reporter.info(`outputs in ${o.out}/ (summary.csv, diagnostics.csv, draws.csv, data.csv, run.json)`);
   reporter.info(`caution: ${CAUTION}`);
   return !converged && o.requireConverged ? 3 : 0;
 }

@@ -8,7 +8,7 @@ import type { PriorSet } from './prior-set.js';
 import { compilePriors, type CompiledPriors } from './priors.js';
 import { createLayout, logistic, type ParameterLayout } from './layout.js';
 import { knotCount, fillWalk, fillBetaOverN } from './transmission.js';
-import { createSeirIntegrator, type SeirIntegrator } from './seir.js';
+import { createSeirIntegrator, runOnsets22, type SeirIntegrator } from './seir.js';
 import { discretiseDelay } from './delay.js';
 import { convolveDelay, negBinLogLikelihood, observations, type Observations } from './observation.js';
 
@@ -74,6 +74,10 @@ export function createModel(data: ModelData, priorSet: PriorSet): EpidemicModel 
     settings.substeps,
   );
 
+  const erlang22 = settings.latent_stages === 2 && settings.infectious_stages === 2;
+  const substeps = settings.substeps;
+  const rates = new Float64Array(2);
+
   // work buffers
   const walk = new Float64Array(K);
   const betaOverN = new Float64Array(simDays);
@@ -113,20 +117,44 @@ export function createModel(data: ModelData, priorSet: PriorSet): EpidemicModel 
     return lp;
   }
 
+  // The log likelihood leaves observe() through this array, not as a return value: a double
+  // returned from (or passed to) a function too large to inline is boxed on the heap. For the
+  // same reason the work is split in two functions that each stay within the optimising
+  // compiler's inlining budget and take and give only arrays and booleans.
+  const likelihoodOut = new Float64Array(1);
+
   function likelihoodPart(th: Float64Array): number {
+    return simulate(th) && observe(th) ? likelihoodOut[0] : -Infinity;
+  }
+
+  /** Transmission rate, SEIR and delay: fills `delayed`; false for an impossible vector. */
+  function simulate(th: Float64Array): boolean {
     const sigma = Math.exp(th[L.walkScale]);
-    const rho = logistic(th[L.ascertainment]);
-    const phi = Math.exp(th[L.dispersion]);
     const i0 = Math.exp(th[L.seedInfected]);
     const latent = Math.exp(th[L.latentDays]);
     const infectious = Math.exp(th[L.infectiousDays]);
     const logBeta0 = th[0] - th[L.infectiousDays];
-    if (!(rho > 0) || !(phi > 0) || !(phi < Infinity) || !(latent > 0) || !(infectious > 0)) return -Infinity;
+    if (!(latent > 0) || !(infectious > 0)) return false;
     fillWalk(sigma, th, L.firstStep, K, walk);
     fillBetaOverN(logBeta0, walk, K, settings.knot_days, linear, invN, simDays, betaOverN);
-    if (!seir.seed(N, i0, latent, infectious)) return -Infinity;
-    if (!seir.run(betaOverN, 0, simDays, latent, infectious, null, onsets, null)) return -Infinity;
+    if (!seir.seed(N, i0, latent, infectious)) return false;
+    if (erlang22) {
+      // the default stage counts: state in local variables (seir.ts), rates passed in an array
+      rates[0] = 2 / latent;
+      rates[1] = 2 / infectious;
+      if (!runOnsets22(seir.state, rates, substeps, betaOverN, 0, simDays, onsets, 0)) return false;
+    } else if (!seir.run(betaOverN, 0, simDays, latent, infectious, null, onsets, null)) {
+      return false;
+    }
     convolveDelay(delay, onsets, seedDays, 0, T, delayed);
+    return true;
+  }
+
+  /** Observation model on `delayed`: writes the log likelihood into likelihoodOut[0]. */
+  function observe(th: Float64Array): boolean {
+    const rho = logistic(th[L.ascertainment]);
+    const phi = Math.exp(th[L.dispersion]);
+    if (!(rho > 0) || !(phi > 0) || !(phi < Infinity)) return false;
     let wd: Float64Array | null = null;
     if (L.weekday) {
       let sum = 0;
@@ -138,7 +166,8 @@ export function createModel(data: ModelData, priorSet: PriorSet): EpidemicModel 
       weekdayMult[6] = Math.exp(-sum);
       wd = weekdayMult;
     }
-    return negBinLogLikelihood(obs, delayed, rho, wd, weekdayOfDay, phi);
+    likelihoodOut[0] = negBinLogLikelihood(obs, delayed, rho, wd, weekdayOfDay, phi);
+    return true;
   }
 
   function logDensity(th: Float64Array): number {

@@ -254,7 +254,7 @@ describe('parseCases: good input', () => {
     expect(parseCases(text, FILE).sha256).toMatch(/^[0-9a-f]{64}$/);
   });
 
-  it('parses 10 regions over 2 years well under a second', () => {
+  it('parses 10 regions over 2 years into 10 complete series', () => {
     const rows: string[] = ['date,cases,region'];
     const start = Date.UTC(2031, 0, 1);
     for (let r = 0; r < 10; r += 1) {
@@ -262,14 +262,11 @@ describe('parseCases: good input', () => {
         rows.push(`${new Date(start + d * 86_400_000).toISOString().slice(0, 10)},${(d * 7 + r) % 101},Place ${r}`);
       }
     }
-    const t0 = performance.now();
     const data = parseCases(`${rows.join('\n')}\n`, FILE);
-    const ms = performance.now() - t0;
     expect(data.series).toHaveLength(10);
     // 2031 has 365 days and 2032 (a leap year) 366, so day 730 is the day before New Year's Eve
     expect(data.series[3]!.dates[729]).toBe('2032-12-30');
     expect(data.series[3]!.counts[729]).toBe((729 * 7 + 3) % 101);
-    expect(ms).toBeLessThan(1000);
   });
 });
 

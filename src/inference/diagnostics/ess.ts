@@ -8,8 +8,8 @@ import {
   chainLength,
   drawsIssue,
   mean,
-  meanAutocovariancePair,
   meanAutocovarianceFft,
+  meanAutocovariancePair,
   quantileOfSorted,
   rankNormalize,
   sampleVariance,
@@ -18,48 +18,57 @@ import {
 } from './helpers.js';
 
 /**
- * Below this lag the autocovariances are summed directly, in pairs of lags; the first lag past
- * it switches to one FFT for all lags. Well-mixing chains end Geyer's sequence within a few
- * lags, where the direct sums cost less than the transform (here one transform of the split
- * chains of a 4 x 20,000 fit costs about as much as 20 direct lags).
+ * Autocovariances are summed directly, two lags per pass over the draws, while Geyer's
+ * sequence looks short; one FFT gives all lags at about the cost of this many direct lags
+ * (measured on the split chains of a 4 x 20,000 fit), so a sequence expected to run past it
+ * switches to the transform.
  */
-const DIRECT_LAGS = 20;
+const TRANSFORM_COST_IN_LAGS = 30;
 
 /**
- * A lag-1 autocorrelation above this announces a sequence running past
- * {@link DIRECT_LAGS}, so the transform is used from lag 2 on. For an AR(1) chain,
- * rho_t = a^t falls to the noise level sqrt(tau / S) after log(sqrt(tau / S)) / log(a) lags:
- * 16 lags for a = 0.75 and S = 80,000, 36 for a = 0.9.
+ * Where the autocorrelation sequence is expected to reach the noise level 1/sqrt(S), from its
+ * value `rho` at `lag`, taking it as geometric (an AR(1) chain's rho_t = a^t): lag * ln(S) /
+ * (-2 ln rho). Only a guide to the cheaper way of computing the lags; the estimate itself is
+ * the same either way. The guess runs short for indicator series (tail ESS), whose
+ * autocorrelations start low and decay slowly, hence the switch at 2/3 of the break-even.
  */
-const SLOW_LAG1 = 0.75;
+function expectedEnd(lag: number, rho: number, draws: number): number {
+  if (!(rho > 0)) return lag;
+  if (rho >= 1) return Infinity;
+  return (lag * Math.log(draws)) / (-2 * Math.log(rho));
+}
 
 /**
- * The mean chain autocovariance at any lag from `directLags` on, computed as far as it is
- * asked for; lags below `directLags` are never asked for (the caller has them).
+ * The mean chain autocovariances around `means`, lag by lag: summed directly, two lags per
+ * pass, until `useTransform()`; then (and for any lag past {@link TRANSFORM_COST_IN_LAGS}) by
+ * one FFT, first for lags up to n/4 and, should the sequence run past that (a chain that
+ * barely moved), for all lags.
  */
-function lazyMeanAutocovariance(
-  chains: Chains,
-  means: Float64Array,
-  directLags: number,
-): (lag: number) => number {
+function lagSums(chains: Chains, means: Float64Array) {
   const n = chainLength(chains);
-  const direct = new Float64Array(directLags + 2);
+  const direct = new Float64Array(TRANSFORM_COST_IN_LAGS + 2);
   let directDone = 0;
+  let transform = false;
   let table: Float64Array | undefined;
-  return (lag) => {
-    if (table !== undefined && lag < table.length) return table[lag]!;
-    if (table === undefined && lag < directLags) {
-      while (directDone <= lag) {
-        [direct[directDone], direct[directDone + 1]] = meanAutocovariancePair(chains, means, directDone);
-        directDone += 2;
+  return {
+    useTransform(): void {
+      transform = true;
+    },
+    at(lag: number): number {
+      if (lag < directDone) return direct[lag]!;
+      if (!transform && lag < TRANSFORM_COST_IN_LAGS) {
+        while (directDone <= lag) {
+          [direct[directDone], direct[directDone + 1]] = meanAutocovariancePair(chains, means, directDone);
+          directDone += 2;
+        }
+        return direct[lag]!;
       }
-      return direct[lag]!;
-    }
-    // First the lags up to n/4, a shorter transform; a sequence that runs past n/4 belongs to
-    // a chain that barely moved, and pays for the full transform.
-    const maxLag = lag <= Math.ceil(n / 4) ? Math.ceil(n / 4) : n - 1;
-    table = meanAutocovarianceFft(chains, means, maxLag);
-    return table[lag]!;
+      if (table === undefined || lag >= table.length) {
+        const maxLag = lag <= Math.ceil(n / 4) ? Math.ceil(n / 4) : n - 1;
+        table = meanAutocovarianceFft(chains, means, maxLag);
+      }
+      return table[lag]!;
+    },
   };
 }
 
@@ -68,8 +77,9 @@ function lazyMeanAutocovariance(
  * normalisation): S / tau with S = M N draws and tau the integrated autocorrelation time
  * from Geyer's initial monotone sequence over all chains.
  *
- * @remarks Vehtari et al. (2021), section 3.2 and appendix A, with the multi-chain
- * autocorrelation of Gelman et al., Bayesian Data Analysis, 3rd ed., section 11.5:
+ * @remarks Vehtari et al. (2021) and the reference implementation published
+ * with it (recalled from memory), with the multi-chain autocorrelation of Gelman et al.,
+ * Bayesian Data Analysis, 3rd ed., section 11.5:
  * - W = mean of the chain variances, var+ = (N - 1)/N W + B/N (B/N the variance of the chain
  *   means), rho_t = 1 - (W - mean over chains of the biased autocovariance at lag t) / var+;
  * - pair sums P_k = rho_{2k} + rho_{2k+1} are kept while positive (Geyer 1992, initial
@@ -80,7 +90,8 @@ function lazyMeanAutocovariance(
  *   may give an ESS above S;
  * - tau is bounded below by 1 / log10(S), so the ESS never exceeds S log10(S).
  *
- * With N = 4 or 5 draws per chain the length bound leaves only the first pair, and
+ * With N = 4 or 5 draws per chain the published loop never runs (t < N - 5 fails at once);
+ * our choice there is to keep the first pair whole, as Geyer's sequence would:
  * tau = -1 + 2 (1 + rho_1).
  *
  * @returns NaN when there are fewer than {@link MIN_DRAWS_PER_SPLIT_CHAIN} draws per chain,
@@ -99,22 +110,25 @@ export function geyerEss(chains: Chains): number {
   const m = chains.length;
   const n = chainLength(chains);
   const means = new Float64Array(chains.map(mean));
-  const [acov0, acov1] = meanAutocovariancePair(chains, means, 0);
+  const draws = m * n;
+  const acov = lagSums(chains, means);
+  const acov0 = acov.at(0);
   const within = (acov0 * n) / (n - 1);
   const varPlus = acov0 + (m > 1 ? sampleVariance(means) : 0);
   if (!(varPlus > 0)) return NaN;
+  const rhoAt = (lag: number) => 1 - (within - acov.at(lag)) / varPlus;
 
   const rho = new Float64Array(n);
   let rhoEven = 1;
-  let rhoOdd = 1 - (within - acov1) / varPlus;
+  let rhoOdd = rhoAt(1);
   rho[0] = rhoEven;
   rho[1] = rhoOdd;
-  const acov = lazyMeanAutocovariance(chains, means, rhoOdd > SLOW_LAG1 ? 2 : DIRECT_LAGS);
   let t = 0;
   while (t < n - 5 && rhoEven + rhoOdd > 0) {
+    if (expectedEnd(t + 1, rhoOdd, draws) > (2 / 3) * TRANSFORM_COST_IN_LAGS) acov.useTransform();
     t += 2;
-    rhoEven = 1 - (within - acov(t)) / varPlus;
-    rhoOdd = 1 - (within - acov(t + 1)) / varPlus;
+    rhoEven = rhoAt(t);
+    rhoOdd = rhoAt(t + 1);
     if (rhoEven + rhoOdd >= 0) {
       rho[t] = rhoEven;
       rho[t + 1] = rhoOdd;
@@ -137,7 +151,6 @@ export function geyerEss(chains: Chains): number {
   }
   let sum = 0;
   for (let u = 0; u < last; u++) sum += rho[u]!;
-  const draws = m * n;
   const tau = Math.max(-1 + 2 * sum + rho[last]!, 1 / Math.log10(draws));
   return draws / tau;
 }
@@ -146,9 +159,15 @@ export function geyerEss(chains: Chains): number {
  * Basic ESS: {@link effectiveSampleSize} of the split chains, on the draws themselves. It
  * estimates how precisely the mean is known, when the mean and variance exist.
  *
- * @remarks Vehtari et al. (2021), section 3.2.
+ * @remarks Vehtari et al. (2021).
  * @returns NaN when a chain has fewer than 8 draws (4 per half), a draw is NaN or infinite,
  * or all draws are equal.
+ *
+ * @example
+ * ```ts
+ * essBasic([Float64Array.of(2, 4, 3, 3, 5, 7, 6, 6), Float64Array.of(1, 5, 3, 3, 4, 4, 2, 6)]);
+ * // 312 / 31 = 10.0645... (worked by hand in the tests)
+ * ```
  */
 export function essBasic(chains: Chains): number {
   if (drawsIssue(chains) !== undefined) return NaN;
@@ -159,7 +178,7 @@ export function essBasic(chains: Chains): number {
  * Bulk ESS: {@link effectiveSampleSize} of the rank-normalised split chains; the sampling
  * efficiency in the bulk of the distribution, defined for any tails.
  *
- * @remarks Vehtari et al. (2021), section 4.3 ("bulk-ESS").
+ * @remarks Vehtari et al. (2021) ("bulk-ESS").
  * @returns NaN when a chain has fewer than 8 draws (4 per half), a draw is NaN or infinite,
  * or all draws are equal.
  */
@@ -172,7 +191,7 @@ export function essBulk(chains: Chains): number {
  * ESS of the indicator I(x <= q), q the p-quantile of all draws in `chains` (taken as given,
  * not split here): how precisely the p-quantile's probability is known.
  *
- * @remarks Vehtari et al. (2021), section 4.3 (ESS of the quantiles); q by definition 7 of
+ * @remarks Vehtari et al. (2021) (ESS of the quantiles); q by definition 7 of
  * Hyndman and Fan (1996). NaN when the indicator is constant (a point mass covering the
  * quantile) or for the reasons of {@link effectiveSampleSize}.
  */
@@ -198,7 +217,7 @@ export function indicatorEss(chains: Chains, q: number): number {
  * Tail ESS: the smaller of the ESS of I(x <= q05) and of I(x <= q95) over the split chains;
  * the sampling efficiency for the 5% and 95% quantiles, which set 90% intervals.
  *
- * @remarks Vehtari et al. (2021), section 4.3 ("tail-ESS"); see {@link quantileEss}.
+ * @remarks Vehtari et al. (2021) ("tail-ESS"); see {@link quantileEss}.
  * @returns NaN when a chain has fewer than 8 draws (4 per half), a draw is NaN or infinite,
  * all draws are equal, or either indicator is constant.
  */

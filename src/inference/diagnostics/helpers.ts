@@ -1,8 +1,8 @@
 /**
  * Building blocks of the convergence diagnostics of Vehtari, Gelman, Simpson, Carpenter and
  * Buerkner (2021), "Rank-normalization, folding, and localization: an improved R-hat for
- * assessing convergence of MCMC", Bayesian Analysis 16(2). Every function here takes `chains`,
- * one Float64Array of draws per chain, all of one length, and returns new arrays: the input is
+ * assessing convergence of MCMC", Bayesian Analysis 16(2). They work on `chains`, one
+ * Float64Array of draws per chain, all of one length, and return new arrays: the input is
  * never modified.
  */
 import { WaxwaneError } from '../../errors.js';
@@ -70,8 +70,7 @@ export function drawsIssue(
  * dropped, so the halves have equal length.
  *
  * @remarks Split chains let R-hat and ESS see a trend within a chain as disagreement between
- * chains (Gelman et al., Bayesian Data Analysis, 3rd ed., section 11.4; Vehtari et al. 2021,
- * section 3).
+ * chains (Gelman et al., Bayesian Data Analysis, 3rd ed., section 11.4; Vehtari et al. 2021).
  *
  * @example
  * ```ts
@@ -94,10 +93,10 @@ export function pool(chains: Chains): Float64Array {
   return out;
 }
 
-/** Copies a pooled array back into chains of length `n`. */
-function unpool(values: Float64Array, n: number): Float64Array[] {
+/** Copies a pooled array back into `m` chains of length `n`. */
+function unpool(values: Float64Array, m: number, n: number): Float64Array[] {
   const out: Float64Array[] = [];
-  for (let start = 0; start < values.length; start += n) out.push(values.slice(start, start + n));
+  for (let j = 0; j < m; j++) out.push(values.slice(j * n, (j + 1) * n));
   return out;
 }
 
@@ -215,7 +214,7 @@ export function sortedDraws(chains: Chains): Float64Array {
  * Folded draws |x - median|, the median taken over all draws of all chains. R-hat of the
  * folded draws compares the chains' spreads rather than their locations.
  *
- * @remarks Vehtari et al. (2021), section 4.2 ("folded-split-R-hat"). A NaN draw makes every
+ * @remarks Vehtari et al. (2021) ("folded-split-R-hat"). A NaN draw makes every
  * folded draw NaN (no median is defined).
  *
  * @example
@@ -245,7 +244,7 @@ let blomCache: { draws: number; scores: Float64Array } | undefined;
  */
 function blomTable(draws: number): Float64Array {
   if (blomCache === undefined || blomCache.draws !== draws) {
-    blomCache = { draws, scores: new Float64Array(2 * draws - 1).fill(NaN) };
+    blomCache = { draws, scores: new Float64Array(Math.max(2 * draws - 1, 0)).fill(NaN) };
   }
   return blomCache.scores;
 }
@@ -262,7 +261,7 @@ function blomScore(table: Float64Array, halfRankIndex: number, draws: number): n
  * all chains, z = Phi^-1((r - 3/8) / (S + 1/4)), with S the number of draws and r the
  * fractional rank (tied draws share the average of their ranks).
  *
- * @remarks Vehtari et al. (2021), section 4.1, equation (14), with Blom's offset 3/8 (Blom
+ * @remarks Vehtari et al. (2021), with Blom's offset 3/8 (Blom
  * 1958). R-hat and ESS of the scores are defined whatever the tails of the draws (a Cauchy
  * target included) and do not change under monotone transforms of the parameter. A NaN draw
  * makes every score NaN (no ranking is defined); infinite draws are ranked like any other.
@@ -278,9 +277,9 @@ function blomScore(table: Float64Array, halfRankIndex: number, draws: number): n
 export function rankNormalize(chains: Chains): Float64Array[] {
   const n = chainLength(chains);
   const values = pool(chains);
-  if (values.some(Number.isNaN)) return unpool(values.fill(NaN), n);
+  if (values.some(Number.isNaN)) return unpool(values.fill(NaN), chains.length, n);
   const order = sortOrder(values);
-  return unpool(normalScores(gather(values, order), order), n);
+  return unpool(normalScores(gather(values, order), order), chains.length, n);
 }
 
 /** values[order[k]] for every k. */
@@ -368,8 +367,8 @@ export function splitRankings(chains: Chains): SplitRankings {
   return {
     split,
     sorted,
-    ranked: unpool(normalScores(sorted, order), n),
-    foldedRanked: unpool(normalScores(folded.sorted, folded.order), n),
+    ranked: unpool(normalScores(sorted, order), split.length, n),
+    foldedRanked: unpool(normalScores(folded.sorted, folded.order), split.length, n),
   };
 }
 

@@ -40,6 +40,12 @@ export interface DiagnosticsSummary {
  *
  * @returns every field NaN when a chain has fewer than 8 draws (4 per half), a draw is NaN or
  * infinite, or all draws are equal; {@link drawsIssue} says which.
+ *
+ * @example
+ * ```ts
+ * summarizeDiagnostics([Float64Array.of(1, 2, 3, 4, 5, 6, 7), Float64Array.of(7, 6, 5, 4, 3, 2, 1)]);
+ * // { rhat: NaN, essBulk: NaN, essTail: NaN, mcseMean: NaN }: 7 draws leave 3 per half
+ * ```
  */
 export function summarizeDiagnostics(chains: Chains): DiagnosticsSummary {
   if (drawsIssue(chains) !== undefined) {

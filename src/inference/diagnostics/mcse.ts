@@ -10,7 +10,7 @@ import { essBasic } from './ess.js';
  * deviation of all draws pooled (divisor S - 1) and ESS the basic ESS of the split chains on
  * the draws themselves (not rank-normalised, as the mean is not rank-invariant).
  *
- * @remarks Vehtari et al. (2021), section 3.2 (Monte Carlo error of the mean from the ESS);
+ * @remarks Vehtari et al. (2021) (Monte Carlo error of the mean from the ESS);
  * for independent draws this is the textbook sd / sqrt(S).
  * @returns NaN when a chain has fewer than 8 draws (4 per half), a draw is NaN or infinite,
  * or all draws are equal (a constant has no ESS; it is reported as undefined rather than as an

@@ -18,8 +18,8 @@ import {
  * B = N var(chain means), W = mean of the chain variances (both with the n - 1 divisor) and
  * var+ = (N - 1)/N W + B/N.
  *
- * @remarks Gelman et al., Bayesian Data Analysis, 3rd ed., section 11.4, equations (11.2) to
- * (11.4); Vehtari et al. (2021), section 3.1, equations (1) to (4).
+ * @remarks Gelman et al., Bayesian Data Analysis, 3rd ed., section 11.4; Vehtari et al.
+ * (2021).
  * @returns NaN for fewer than 2 chains, fewer than {@link MIN_DRAWS_PER_SPLIT_CHAIN} draws per
  * chain, a NaN or infinite draw, or all draws equal; +Infinity when every chain is constant
  * but the chains differ (W = 0 < B: the chains never mixed).
@@ -58,7 +58,7 @@ export function scaleReduction(chains: Chains): number {
  * @example
  * ```ts
  * rhatBasic([Float64Array.of(2, 4, 3, 3, 5, 7, 6, 6), Float64Array.of(1, 5, 3, 3, 4, 4, 2, 6)]);
- * // sqrt(39 / 20) = 1.3964240043768941
+ * // sqrt(39 / 20) = 1.396424004376894
  * ```
  */
 export function rhatBasic(chains: Chains): number {
@@ -72,8 +72,8 @@ export function rhatBasic(chains: Chains): number {
  * draws |x - median| (differences in spread). Values above 1.01 mean the chains have not
  * mixed.
  *
- * @remarks Vehtari et al. (2021), section 4.1 ("rank normalized split-R-hat") and section 4.2
- * (folded split-R-hat, and the maximum of the two). The chains are split, then folded around
+ * @remarks Vehtari et al. (2021): rank-normalised split-R-hat, folded split-R-hat, and the
+ * maximum of the two. The chains are split, then folded around
  * the median of the split draws, then rank-normalised. (The paper folds before splitting; the
  * two differ only for an odd chain length, by the one middle draw per chain left out of the
  * median.)

@@ -29,7 +29,8 @@ function ar1Chains(seed: number, a: number, chains = 4, n = 20_000): Float64Arra
 }
 
 /**
- * A plain transcription of the estimator of Vehtari et al. (2021), appendix A, with
+ * A plain restatement of the estimator of Vehtari et al. (2021) (its reference
+ * implementation's formulas, from memory), with
  * autocovariances summed directly at every lag (O(n^2)); it shares no code with the module.
  */
 function referenceEss(chains: Float64Array[]): number {
@@ -104,7 +105,7 @@ describe('essBasic and essBulk on AR(1) chains', () => {
   });
 
   it('exceeds S for antithetic chains (a = -0.3), near (1 - a) / (1 + a) S', () => {
-    // Vehtari et al. (2021), section 3.2: antithetic chains may have ESS above S; the same
+    // Vehtari et al. (2021): antithetic chains may have ESS above S; the same
     // AR(1) result gives 1.3 / 0.7 S = 1.857 S. Tolerance 15%.
     const chains = ar1Chains(204, -0.3);
     const expected = (1.3 / 0.7) * 80_000;
@@ -115,8 +116,8 @@ describe('essBasic and essBulk on AR(1) chains', () => {
   });
 
   it('caps the ESS at S log10(S) for strongly antithetic chains', () => {
-    // Vehtari et al. (2021), appendix A: tau is bounded below by 1 / log10(S). An AR(1) chain
-    // with a = -0.99 has tau = 0.01 / 1.99, far below the bound.
+    // Vehtari et al. (2021), reference implementation (from memory): tau is bounded below by
+    // 1 / log10(S). An AR(1) chain with a = -0.99 has tau = 0.01 / 1.99, far below the bound.
     const chains = ar1Chains(205, -0.99, 4, 2000);
     const s = 8000;
     expect(essBasic(chains)).toBeCloseTo(s * Math.log10(s), 6);
@@ -124,7 +125,7 @@ describe('essBasic and essBulk on AR(1) chains', () => {
 });
 
 describe('effectiveSampleSize', () => {
-  it('equals a direct transcription of the published estimator, whichever lag path it takes', () => {
+  it('equals a direct restatement of the published estimator, whichever lag path it takes', () => {
     // Three regimes: a short Geyer sequence (direct lag sums), a long one (FFT up to n/4) and
     // one running past n/4 (full-length FFT).
     for (const [a, n, seed] of [
@@ -154,7 +155,7 @@ describe('effectiveSampleSize', () => {
 
 describe('essBulk', () => {
   it('is unchanged by a monotone transform of the draws', () => {
-    // Rank invariance of bulk-ESS: Vehtari et al. (2021), section 4.3.
+    // Rank invariance of bulk-ESS: Vehtari et al. (2021).
     const chains = ar1Chains(209, 0.6, 4, 1000);
     const expd = chains.map((c) => c.map(Math.exp));
     expect(essBulk(expd)).toBe(essBulk(chains));

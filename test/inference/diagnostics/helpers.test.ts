@@ -40,7 +40,7 @@ function directAutocovariance(x: Float64Array): Float64Array {
 
 describe('splitChains', () => {
   it('cuts each chain into halves and drops the middle draw of an odd length', () => {
-    // Split-chain rule: Vehtari et al. (2021), section 3; Gelman et al., BDA3, section 11.4.
+    // Split-chain rule: Vehtari et al. (2021); Gelman et al., BDA3, section 11.4.
     expect(plain(splitChains([f64(1, 2, 3, 4, 5), f64(6, 7, 8, 9, 10)]))).toEqual([
       [1, 2],
       [4, 5],
@@ -68,7 +68,7 @@ describe('splitChains', () => {
 
 describe('rankNormalize', () => {
   it('gives tied draws their average rank and Blom scores from the normal quantile', () => {
-    // Vehtari et al. (2021), equation (14): z = Phi^-1((r - 3/8) / (S + 1/4)), fractional
+    // Vehtari et al. (2021): z = Phi^-1((r - 3/8) / (S + 1/4)), fractional
     // ranks for ties. By hand: pooled draws 2, 5, 2, 7 have ranks 1.5, 3, 1.5, 4; S = 4.
     const z = rankNormalize([f64(2, 5), f64(2, 7)]);
     const score = (r: number) => qnorm((r - 0.375) / 4.25, 0, 1);
@@ -96,11 +96,16 @@ describe('rankNormalize', () => {
   });
 
   it('is unchanged by a monotone transform of the draws', () => {
-    // Rank invariance, Vehtari et al. (2021), section 4.1.
+    // Rank invariance, Vehtari et al. (2021).
     const rng = createRng(11);
     const chains = [0, 1, 2].map(() => Float64Array.from({ length: 50 }, () => rng.normal()));
     const expd = chains.map((c) => c.map(Math.exp));
     expect(plain(rankNormalize(expd))).toEqual(plain(rankNormalize(chains)));
+  });
+
+  it('returns empty chains for no draws', () => {
+    expect(rankNormalize([])).toEqual([]);
+    expect(plain(rankNormalize([f64(), f64()]))).toEqual([[], []]);
   });
 
   it('returns NaN scores when a draw is NaN', () => {

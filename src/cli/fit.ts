@@ -26,8 +26,11 @@ import { formatNumber, toCsv } from '../outputs/format.js';
 import { createRng, deriveSeed } from '../util/rng.js';
 import { VERSION } from '../version.js';
 import type { Reporter } from './reporter.js';
+import { reportAfterRun } from './report.js';
+import { roundTripDraws } from '../io/run-folder.js';
+import { checkForecastOptionsNeedHorizon, computeForecast, planForecast, FORECAST_FILES, type ForecastOptions } from './forecast.js';
 
-export interface FitCliOptions {
+export interface FitCliOptions extends ForecastOptions {
   priors: string;
   population?: number;
   out: string;
@@ -45,6 +48,8 @@ export interface FitCliOptions {
   quiet: boolean;
   requireConverged: boolean;
   force: boolean;
+  /** write report.html after the outputs (false with --no-report) */
+  report: boolean;
 }
 
 export const CAUTION =
@@ -86,6 +91,8 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
   checkPopulation(series, population, casesFile);
   const priorPath = resolvePriorSetPath(o.priors);
   const priorSet = resolvePriorSet(o.priors);
+  checkForecastOptionsNeedHorizon(o);
+  const forecastPlan = o.horizon > 0 ? planForecast(o, series.firstDate, series.dates[series.dates.length - 1], priorSet.model) : null;
   for (const w of data.warnings) reporter.warn(w);
   prepareOutputDir(o.out, { force: o.force });
 
@@ -158,9 +165,38 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
         `min tail ESS ${Math.round(minTail)} (need >= ${CONVERGENCE.minEss}); run longer (--warmup, --draws, --thin) before using these results`,
     );
   }
+  // a diagnostic is NaN where it is undefined for the draws (src/inference/diagnostics: too few
+  // draws per chain, or a chain that barely moved); diagnostics.csv writes NaN, JSON can only
+  // write null, so the reason is said here rather than left to a blank
+  const undefinedDiagnostics = diagnostics.filter((d) => [d.rhat, d.ess_bulk, d.ess_tail, d.mcse_mean].some(Number.isNaN));
+  if (undefinedDiagnostics.length > 0) {
+    warnings.push(
+      `convergence diagnostics undefined (NaN in diagnostics.csv, null in run.json) for ${undefinedDiagnostics.map((d) => d.parameter).join(', ')}: ` +
+        'the chains kept too few distinct draws to compute them; run longer (--warmup, --draws)',
+    );
+  }
+
+  // forecasts from the draws exactly as draws.csv keeps them, so `waxwane forecast` on this
+  // folder later gives the same bytes
+  const forecast =
+    forecastPlan === null
+      ? null
+      : computeForecast(forecastPlan, {
+          model,
+          draws: roundTripDraws(model.layout, allDraws),
+          dates: series.dates,
+          firstWeekday: input.firstWeekday,
+          seed: o.seed,
+          levels: o.quantiles,
+          command: 'fit',
+          runFolder: null,
+          converged,
+        });
+  if (forecast !== null) warnings.push(...forecast.warnings);
 
   // 4. write everything at once
   const out = new OutputSet(o.out);
+  for (const [name, text] of forecast?.files ?? []) out.add(name, text);
   out.add('summary.csv', summaryCsv(rows, o.quantiles));
   out.add('diagnostics.csv', diagnosticsCsv(diagnostics));
   out.add('draws.csv', drawsCsv(model.layout, chains, fit.chains.map((c) => c.logDensity)));
@@ -183,6 +219,13 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
       count_column: o.countColumn,
       region_column: o.regionColumn,
       require_converged: o.requireConverged,
+      horizon: o.horizon,
+      scenarios: o.scenarios === undefined ? null : basename(o.scenarios),
+      hold: o.hold,
+      scale: o.scale ?? null,
+      from: o.from ?? null,
+      until: o.until ?? null,
+      triangle: o.triangle === undefined ? null : basename(o.triangle),
     },
     threads: o.threads,
     versions: { node: process.versions.node, waxwane: VERSION },
@@ -207,13 +250,15 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
 
   // 5. tell the user
   printKeyResults(reporter, rows, series.dates[series.dates.length - 1]);
+  if (forecast !== null) reporter.info(forecast.keyLines.join('\n'));
   for (const w of warnings.slice(data.warnings.length)) reporter.warn(w);
   reporter.info(
     converged
       ? `converged: max R-hat ${formatNumber(worstRhat, 4)}, min bulk ESS ${Math.round(minBulk)}, min tail ESS ${Math.round(minTail)}`
       : 'not converged: see the warning above',
   );
-  reporter.info(`outputs in ${o.out}/ (summary.csv, diagnostics.csv, draws.csv, data.csv, run.json)`);
+  reporter.info(`outputs in ${o.out}/ (summary.csv, diagnostics.csv, draws.csv, data.csv, run.json${forecast === null ? '' : `, ${FORECAST_FILES.join(', ')}`})`);
+  if (o.report) await reportAfterRun(o.out, reporter);
   reporter.info(`caution: ${CAUTION}`);
   return !converged && o.requireConverged ? 3 : 0;
 }

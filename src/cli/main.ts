@@ -4,13 +4,15 @@
  * line, a trace in a log file, and exit code 1.
  */
 import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
-import { appendFileSync, existsSync, mkdirSync, rmdirSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { dirname, join, resolve } from 'node:path';
-import { WaxwaneError } from '../errors.js';
+import { existsSync, rmdirSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
+import { WaxwaneError, oneLineMessage } from '../errors.js';
+import { reportInternalError } from './internal-error.js';
 import { createReporter } from './reporter.js';
 import { runSimulate } from './simulate.js';
 import { runFit } from './fit.js';
+import { runReport, reportAfterRun, type ReportCliOptions } from './report.js';
+import { runForecast, MAX_HORIZON, type ForecastCliOptions } from './forecast.js';
 import { availableParallelism } from 'node:os';
 import { DEFAULT_SAMPLER } from '../inference/fit.js';
 import { VERSION } from '../version.js';
@@ -83,10 +85,55 @@ export function buildProgram(): Command {
     .option('--count-column <name>', 'name of the count column', 'cases')
     .option('--region-column <name>', 'name of the region column', 'region')
     .option('--require-converged', 'exit with code 3 when the chains have not converged', false)
+    .addOption(new Option('--horizon <days>', 'also forecast this many days past the last observation (0: no forecast)').default(0).argParser(intOption('--horizon', 0, MAX_HORIZON)))
+    .option('--scenarios <file>', 'forecast scenario file (JSON; format in the README)')
+    .option('--hold', 'add a forecast scenario "hold": beta held at its last value', false)
+    .addOption(new Option('--scale <factor>', 'add a forecast scenario "scaled": beta held and multiplied by this factor').argParser(positiveOption('--scale')))
+    .option('--from <date>', 'first day of --scale (default: the first forecast day)')
+    .option('--until <date>', 'last day of --scale (default: the last forecast day)')
+    .option('--triangle <file>', 'reporting triangle (CSV onset_date,delay,count) for the nowcast')
     .option('--force', 'write into a non-empty output folder', false)
     .option('--quiet', 'print nothing but warnings and errors', false)
+    .option('--no-report', 'do not write report.html')
     .action(async (cases: string, opts: FitCliOptions) => {
       process.exitCode = await leavingNoFolderOnFailure(opts.out, () => runFit(cases, opts, createReporter({ quiet: opts.quiet })));
+    });
+
+  program
+    .command('forecast')
+    .description('forecast, compare scenarios and nowcast from the saved draws of a fit (no refit)')
+    .argument('<run>', 'run folder written by "waxwane fit --out"')
+    .addOption(new Option('--horizon <days>', 'days to forecast past the last observation').default(28).argParser(intOption('--horizon', 1, MAX_HORIZON)))
+    .option('--scenarios <file>', 'forecast scenario file (JSON; format in the README)')
+    .option('--hold', 'add a scenario "hold": beta held at its last value', false)
+    .addOption(new Option('--scale <factor>', 'add a scenario "scaled": beta held and multiplied by this factor').argParser(positiveOption('--scale')))
+    .option('--from <date>', 'first day of --scale (default: the first forecast day)')
+    .option('--until <date>', 'last day of --scale (default: the last forecast day)')
+    .option('--triangle <file>', 'reporting triangle (CSV onset_date,delay,count) for the nowcast')
+    .option('--out <dir>', 'output folder (default: the run folder)')
+    .addOption(new Option('--seed <n>', "random seed (default: the fit's seed)").argParser(intOption('--seed', 0, 2 ** 32 - 1)))
+    .addOption(new Option('--quantiles <list>', "comma-separated quantile levels (default: the fit's)").argParser(levelsOption))
+    .option('--force', 'replace earlier forecast outputs', false)
+    .option('--quiet', 'print nothing but warnings and errors', false)
+    .option('--no-report', 'do not write report.html again')
+    .action(async (run: string, opts: ForecastCliOptions & { report: boolean }) => {
+      const reporter = createReporter({ quiet: opts.quiet });
+      process.exitCode = await leavingNoFolderOnFailure(opts.out ?? run, async () => {
+        const code = await runForecast(run, opts, reporter);
+        // the report shows a run folder: it is written again when the forecast went into it
+        if (opts.report && (opts.out === undefined || resolve(opts.out) === resolve(run))) await reportAfterRun(run, reporter);
+        return code;
+      });
+    });
+
+  program
+    .command('report')
+    .description('write the self-contained HTML report of a run folder (report.html; needs no network to view)')
+    .argument('<run>', 'run folder written by "waxwane fit --out"')
+    .option('--out <file>', 'where to write the report (default: RUN/report.html)')
+    .option('--quiet', 'print nothing but warnings and errors', false)
+    .action(async (run: string, opts: ReportCliOptions) => {
+      process.exitCode = await runReport(run, opts, createReporter({ quiet: opts.quiet }));
     });
 
   return program;
@@ -103,13 +150,18 @@ function levelsOption(value: string): number[] {
   return sorted;
 }
 
+/** The output folder of the command running now: an internal error is logged there. */
+let runningOutDir: string | undefined;
+
 /**
  * Runs a command that writes into the folder `out`. The commands create `out` (and missing
  * parents) before their long work, to fail early on a folder that cannot be made; if the
  * command then fails, the folders this run created are removed again, deepest first and only
- * while empty (rmdir refuses a non-empty folder), so a failed run leaves nothing behind.
+ * while empty (rmdir refuses a non-empty folder), so a failed run leaves nothing behind, but
+ * for the log of an internal error, written into `out` (cli/internal-error.ts).
  */
 async function leavingNoFolderOnFailure<T>(out: string, run: () => T | Promise<T>): Promise<T> {
+  runningOutDir = out;
   const missing: string[] = [];
   for (let d = resolve(out); !existsSync(d) && dirname(d) !== d; d = dirname(d)) missing.push(d);
   try {
@@ -126,22 +178,17 @@ async function leavingNoFolderOnFailure<T>(out: string, run: () => T | Promise<T
   }
 }
 
-/** A message on one line: line breaks (e.g. quoted from a parser) become spaces. */
-function oneLine(message: string): string {
-  return message.replace(/\s*[\r\n]+\s*/g, ' ');
-}
-
-function logInternalError(e: unknown): string {
-  const dir = join(tmpdir(), 'waxwane-logs');
-  mkdirSync(dir, { recursive: true });
-  const file = join(dir, `error-${new Date().toISOString().replace(/[:.]/g, '-')}-${process.pid}.log`);
-  appendFileSync(file, `${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
-  return file;
-}
-
 export async function main(argv: string[]): Promise<void> {
   const program = buildProgram();
   program.exitOverride();
+  // failures outside the awaited command (a stray callback, a rejected promise nobody awaits)
+  // get the same one line and log, never a raw trace
+  const fatal = (e: unknown) => {
+    process.stderr.write(reportInternalError(e, { outDir: runningOutDir, argv }));
+    process.exit(1);
+  };
+  process.on('uncaughtException', fatal);
+  process.on('unhandledRejection', fatal);
   // every message line of the tool starts with "waxwane:", commander's usage errors too;
   // subcommands copied the output settings when they were made, so each gets them here
   const output = {
@@ -159,14 +206,11 @@ export async function main(argv: string[]): Promise<void> {
       return;
     }
     if (e instanceof WaxwaneError) {
-      process.stderr.write(`waxwane: ${oneLine(e.message)}\n`);
+      process.stderr.write(`waxwane: ${oneLineMessage(e.message)}\n`);
       process.exitCode = e.exitCode;
       return;
     }
-    const log = logInternalError(e);
-    process.stderr.write(
-      `waxwane: internal error: ${oneLine(e instanceof Error ? e.message : String(e))} (full trace in ${log}; please report it)\n`,
-    );
+    process.stderr.write(reportInternalError(e, { outDir: runningOutDir, argv }));
     process.exitCode = 1;
   }
 }

@@ -25,6 +25,12 @@ import { WaxwaneError } from '../errors.js';
 export const TEMP_PREFIX = '.waxwane-tmp-';
 
 /**
+ * The log an internal error leaves in the output folder (src/cli/internal-error.ts). A folder
+ * holding nothing else counts as empty, so that the run can be tried again there.
+ */
+export const ERROR_LOG = 'waxwane-error.log';
+
+/**
  * Writes `data` to `path` atomically: temporary file in the same folder, fsync, rename over
  * `path`, then fsync of the folder so the rename itself is durable (best effort: some
  * systems cannot fsync a folder).
@@ -48,7 +54,8 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
 /**
  * Makes `dir` ready to receive output: creates it (with parents) if missing.
  *
- * An existing folder must be empty unless `force` is set; with `force` its files are
+ * An existing folder must be empty (or hold only the {@link ERROR_LOG} of a failed run)
+ * unless `force` is set; with `force` its files are
  * overwritten one by one as outputs are written, and files that the run does not produce are
  * kept (nothing is deleted).
  *
@@ -69,7 +76,7 @@ export function prepareOutputDir(dir: string, options: { force: boolean }): void
     } catch (err) {
       throw new WaxwaneError(`${dir}: cannot list this folder (${codeOf(err)}); check its permissions or choose another folder`);
     }
-    if (entries.length > 0 && !options.force) {
+    if (entries.some((e) => e !== ERROR_LOG) && !options.force) {
       throw new WaxwaneError(
         `${dir}: the output folder is not empty (${entries.length} entries); pass --force to write over its files, or choose another folder`,
       );

@@ -89,7 +89,7 @@ export function parseCases(text: string, file: string, options: CaseOptions = {}
   const regionColumn = options.regionColumn ?? DEFAULT_REGION_COLUMN;
   if (dateColumn === countColumn) {
     throw new WaxwaneError(
-      `the date column and the count column are both "${dateColumn}"; choose different columns with --date-column and --count-column`,
+      `${file}: the date column and the count column are both ${show(dateColumn)}; choose different columns with --date-column and --count-column`,
     );
   }
 
@@ -100,10 +100,13 @@ export function parseCases(text: string, file: string, options: CaseOptions = {}
   const csv = /[\r\n]$/.test(body) ? body : `${body}\n`;
   const shape = scanShape(csv, file);
   const header = shape[0]!;
-  const table = fromCSV(csv, { autoType: false });
-  const names = table.columnNames();
-  if (names.length !== header.fields || table.numRows() !== shape.length - 1) {
-    throw new Error(`parseCases: arquero read ${table.numRows()} rows of ${names.length} fields, the scan ${shape.length - 1} rows of ${header.fields}`);
+  // arquero keeps column names as keys of a plain object, where a header naming "__proto__" or
+  // "hasOwnProperty" breaks it; so it reads the header as a data row, under names of its own
+  const table = fromCSV(csv, { autoType: false, header: false });
+  const headerCells = table.columnNames().map((_, i) => table.columnAt(i)!.at(0));
+  const names = headerCells.map((v) => (typeof v === 'string' ? v : ''));
+  if (names.length !== header.fields || table.numRows() !== shape.length) {
+    throw new Error(`parseCases: arquero read ${table.numRows()} rows of ${names.length} fields, the scan ${shape.length} rows of ${header.fields}`);
   }
 
   checkFieldCounts(shape, file);
@@ -113,14 +116,14 @@ export function parseCases(text: string, file: string, options: CaseOptions = {}
   const populationIndex = uniqueIndex(names, POPULATION_COLUMN, file);
   const columns = names.map((_, i) => table.columnAt(i)!);
   const value = (col: number, row: number): string => {
-    const v: unknown = columns[col]!.at(row);
+    const v: unknown = columns[col]!.at(row + 1);
     return typeof v === 'string' ? v : '';
   };
 
   const groups = new Map<string, Group>();
   const emptyRowLines: number[] = [];
   let dataRows = 0;
-  for (let r = 0; r < table.numRows(); r += 1) {
+  for (let r = 0; r < table.numRows() - 1; r += 1) {
     const record = shape[r + 1]!;
     if (isBlankLine(record)) continue;
     if (record.empty) {
@@ -210,8 +213,15 @@ export function readCases(file: string, options: CaseOptions = {}): CaseData {
 }
 
 /**
+ * Largest population accepted: over a hundred times the world's population. Far larger ones
+ * (1e300) overflow the derived outputs (beta D S, infections) to Infinity and NaN; up to this
+ * bound every count and trajectory value stays an exact or finite double.
+ */
+export const MAX_POPULATION = 1e12;
+
+/**
  * Checks that `population` can hold the reported cases of `series`: a positive finite number,
- * at least the total of the non-missing counts.
+ * at least the total of the non-missing counts, at most {@link MAX_POPULATION}.
  *
  * @throws WaxwaneError otherwise, naming the file and the region.
  */
@@ -222,6 +232,13 @@ export function checkPopulation(series: CaseSeries, population: number, file: st
       { file },
       `the population${where} is ${population}, not a positive number`,
       'give the number of people in the population the cases come from',
+    );
+  }
+  if (population > MAX_POPULATION) {
+    throw inputError(
+      { file },
+      `the population${where} (${population}) is above ${MAX_POPULATION}, more than a hundred times the world's`,
+      'check the population (the number of people the cases come from)',
     );
   }
   const total = totalCases(series);

@@ -12,6 +12,7 @@ import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import { WaxwaneError, inputError } from '../errors.js';
 import type { PriorSet } from '../model/prior-set.js';
 import { readJsonDocument, fieldPath, shown, type Segment } from './json.js';
+import { checkDelay } from './delay-check.js';
 
 /**
  * priors/ at the package root. This module is src/io/priors.ts under test and dist/io/priors.js
@@ -183,7 +184,9 @@ export function parsePriorSet(text: string, file: string): PriorSet {
     throw inputError(field === undefined ? { file } : { file, field }, rule, fix);
   }
   const { $schema: _editorOnly, ...set } = value as Record<string, unknown>;
-  return set as unknown as PriorSet;
+  const priorSet = set as unknown as PriorSet;
+  checkDelay(priorSet.model.delay, file, 'model.delay');
+  return priorSet;
 }
 
 /** Reads and validates a prior-set file (see parsePriorSet). */

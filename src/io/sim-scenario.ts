@@ -25,13 +25,18 @@
  *
  * `reproduction` is the basic reproduction number beta(t) * D over dates: before the first date
  * it holds the first value, after the last date the last value. Weekday multipliers are scaled
- * to a geometric mean of 1, as the model's weekday effects are.
+ * to a geometric mean of 1, as the model's weekday effects are; the largest may be at most
+ * {@link MAX_WEEKDAY_RATIO} times the smallest. A population is at most
+ * {@link MAX_SIM_POPULATION}, and the delay must keep at least half of its distribution within
+ * 0..max_days (io/delay-check.ts), so that every simulated count is exact and readable by `fit`.
  */
 import { readFileSync } from 'node:fs';
 import { WaxwaneError, inputError } from '../errors.js';
 import type { ModelSettings } from '../model/prior-set.js';
+import { MAX_POPULATION } from './cases.js';
 import { parseIsoDate } from './dates.js';
 import { readJsonDocument } from './json.js';
+import { checkDelay } from './delay-check.js';
 
 export interface SimPlace {
   name: string;
@@ -64,6 +69,15 @@ export const DEFAULT_SIM_MODEL: ModelSettings = {
   delay: { family: 'gamma', mean: 5, sd: 3, max_days: 21 },
   weekday_effect: false,
 };
+
+/**
+ * Largest population of a place, the one `waxwane fit` accepts: counts above 2^53 could not be
+ * written exactly, nor read back; at this bound the expected daily counts (at most about 52
+ * times the population) stay well below that.
+ */
+export const MAX_SIM_POPULATION = MAX_POPULATION;
+/** Largest ratio between two weekday multipliers (after scaling they stay between 1/52 and 52). */
+export const MAX_WEEKDAY_RATIO = 100;
 
 type Json = unknown;
 const isObject = (v: Json): v is Record<string, Json> => typeof v === 'object' && v !== null && !Array.isArray(v);
@@ -132,6 +146,7 @@ export function parseSimScenario(text: string, file: string): SimScenario {
         sd: num(d.sd, 'model.delay.sd', (x) => x > 0, 'a positive number of days'),
         max_days: num(d.max_days, 'model.delay.max_days', (x) => Number.isInteger(x) && x >= 1 && x <= 60, 'a whole number from 1 to 60'),
       };
+      checkDelay(model.delay, file, 'model.delay');
     }
   }
 
@@ -154,6 +169,9 @@ export function parseSimScenario(text: string, file: string): SimScenario {
     names.add(p.name);
     const pos = (k: string) => num(p[k], `${at}.${k}`, (x) => x > 0, 'a positive number');
     const population = pos('population');
+    if (population > MAX_SIM_POPULATION) {
+      throw err(`${at}.population`, `must be at most ${MAX_SIM_POPULATION}, got ${population} (larger counts could not be written exactly)`, 'lower it');
+    }
     const seed_infected = pos('seed_infected');
     if (seed_infected >= population) throw err(`${at}.seed_infected`, 'must be smaller than the population', 'lower it');
     const ascertainment = num(p.ascertainment, `${at}.ascertainment`, (x) => x > 0 && x <= 1, 'a share in (0, 1]');
@@ -164,6 +182,13 @@ export function parseSimScenario(text: string, file: string): SimScenario {
         throw err(`${at}.weekday_multipliers`, 'must be 7 positive numbers, Monday to Sunday', 'give one per weekday');
       }
       const vals = w.map((x: Json, j: number) => num(x, `${at}.weekday_multipliers[${j}]`, (v) => v > 0, 'a positive number'));
+      if (Math.max(...vals) > MAX_WEEKDAY_RATIO * Math.min(...vals)) {
+        throw err(
+          `${at}.weekday_multipliers`,
+          `the largest multiplier is more than ${MAX_WEEKDAY_RATIO} times the smallest`,
+          'give multipliers of similar size (they are relative: 1.2 and 0.8, not 1e6 and 1e-6)',
+        );
+      }
       const gm = Math.exp(vals.reduce((a: number, v: number) => a + Math.log(v), 0) / 7);
       weekday_multipliers = vals.map((v: number) => v / gm);
     }

@@ -5,7 +5,7 @@
  * column, or the field, where that applies) and says what to do, no stack trace, and no output
  * written (the output folder is not created; a folder that existed keeps exactly its content).
  *
- * About 45 short runs of the tool, about half a second of CPU each (nearly all of it start-up),
+ * About 65 short runs of the tool, about half a second of CPU each (nearly all of it start-up),
  * a few at a time.
  */
 import { readdirSync, readFileSync, mkdirSync, writeFileSync } from 'node:fs';
@@ -264,6 +264,83 @@ const fitRows: Row[] = [
     message: /out: the output folder is not empty .*; pass --force to write over its files, or choose another folder/,
     out: 'nonempty',
   },
+  // prior files through the command line (each rule is checked in detail in test/io/priors.test.ts)
+  {
+    name: 'prior file with a NaN (JSON has none)',
+    files: { 'cases.csv': GOOD_CASES, 'priors.json': DEFAULT_PRIORS.replace('"scale": 0.15', '"scale": NaN') },
+    args: fit('cases.csv', '1000', '--priors', 'priors.json'),
+    message: /priors\.json, line \d+: invalid JSON at column \d+: unexpected "N" where a value should be \(JSON has no NaN or Infinity\); fix the syntax there/,
+  },
+  {
+    name: 'prior file with a negative median',
+    files: { 'cases.csv': GOOD_CASES, 'priors.json': DEFAULT_PRIORS.replace('"median": 1.5', '"median": -1.5') },
+    args: fit('cases.csv', '1000', '--priors', 'priors.json'),
+    message: /priors\.json, field "priors\.start_reproduction\.median": must be > 0, got -1\.5; change the value/,
+  },
+  {
+    name: 'prior file with a walk scale of 0',
+    files: { 'cases.csv': GOOD_CASES, 'priors.json': DEFAULT_PRIORS.replace('"scale": 0.15', '"scale": 0') },
+    args: fit('cases.csv', '1000', '--priors', 'priors.json'),
+    message: /priors\.json, field "priors\.walk_scale\.scale": must be > 0, got 0; change the value/,
+  },
+  {
+    name: 'prior file whose delay lies almost wholly beyond max_days',
+    files: { 'cases.csv': GOOD_CASES, 'priors.json': DEFAULT_PRIORS.replace('"mean": 5, "sd": 3, "max_days": 21', '"mean": 97, "sd": 3, "max_days": 21') },
+    args: fit('cases.csv', '1000', '--priors', 'priors.json'),
+    message: /priors\.json, field "model\.delay\.max_days": the gamma delay with mean 97 and sd 3 keeps almost none of its probability within 0 to 21 days .*; raise max_days/,
+  },
+  // case files
+  {
+    name: 'UTF-16 case file',
+    files: { 'cases.csv': Buffer.from('\ufeffdate,cases\n2031-02-03,3\n', 'utf16le') },
+    args: fit('cases.csv', '1000'),
+    message: /cases\.csv: the file is UTF-16 text; save it as CSV with UTF-8 encoding/,
+  },
+  {
+    name: 'a spreadsheet workbook (zip) instead of CSV',
+    files: { 'cases.xlsx': Buffer.from([0x50, 0x4b, 3, 4, 20, 0, 6, 0, 8, 0]) },
+    args: fit('cases.xlsx', '1000'),
+    message: /cases\.xlsx: the file is a zip archive .*, not CSV text; save the sheet as CSV/,
+  },
+  {
+    name: 'count in exponent notation',
+    files: { 'cases.csv': 'date,cases\n2031-02-03,1e3\n' },
+    args: fit('cases.csv', '10000'),
+    message: /cases\.csv, line 2, column "cases": the count "1e3" is in exponent notation; write it in plain digits/,
+  },
+  {
+    name: 'every count blank',
+    files: { 'cases.csv': 'date,cases\n2031-02-03,\n2031-02-04,\n' },
+    args: fit('cases.csv', '1000'),
+    message: /cases\.csv, column "cases": every count is blank; at least one day needs a reported count/,
+  },
+  // command-line options
+  {
+    name: '--population 1e999 (infinite)',
+    files: { 'cases.csv': GOOD_CASES },
+    args: fit('cases.csv', '1e999'),
+    message: /--population must be a positive number, got "1e999"/,
+    usage: true,
+  },
+  {
+    name: '--population 1e300 (its outputs would overflow)',
+    files: { 'cases.csv': GOOD_CASES },
+    args: fit('cases.csv', '1e300'),
+    message: /cases\.csv: the population \(1e\+300\) is above 1000000000000, more than a hundred times the world's; check the population/,
+  },
+  {
+    name: '--date-column naming the count column',
+    files: { 'cases.csv': GOOD_CASES },
+    args: fit('cases.csv', '1000', '--date-column', 'cases'),
+    message: /cases\.csv: the date column and the count column are both "cases"; choose different columns with --date-column and --count-column/,
+  },
+  {
+    name: 'forecast --horizon 0',
+    files: {},
+    args: ['forecast', 'run', '--horizon', '0', '--out', 'out'],
+    message: /--horizon must be a whole number from 1 to \d+, got "0"/,
+    usage: true,
+  },
 ];
 
 /** A valid scenario: one place, 20 days; each row spoils one thing in a copy. */
@@ -374,6 +451,30 @@ const simulateRows: Row[] = [
     // folder holds nothing but the scenario afterwards)
     args: ['simulate', 'scenario.json', '--out', 'made/by/this/run'],
     message: /scenario\.json, field "places\[0\]": the epidemic of "Fenwick" cannot be simulated .*; raise model\.substeps, or lengthen latent_days and infectious_days/,
+  },
+  {
+    name: 'a NaN (JSON has none)',
+    files: { 'scenario.json': scenario(() => {}).replace('"dispersion": 30', '"dispersion": NaN') },
+    args: simulate(),
+    message: /scenario\.json, line \d+: invalid JSON at column \d+: unexpected "N" where a value should be \(JSON has no NaN or Infinity\)/,
+  },
+  {
+    name: 'weekday multipliers a million times apart',
+    files: { 'scenario.json': scenario((_, p) => (p.weekday_multipliers = [1e6, 1, 1, 1, 1, 1, 1e-6])) },
+    args: simulate(),
+    message: /scenario\.json, field "places\[0\]\.weekday_multipliers": the largest multiplier is more than 100 times the smallest; give multipliers of similar size/,
+  },
+  {
+    name: 'a population too large for exact counts',
+    files: { 'scenario.json': scenario((_, p) => ((p.population = 1e15), (p.seed_infected = 5))) },
+    args: simulate(),
+    message: /scenario\.json, field "places\[0\]\.population": must be at most 1000000000000, got 1000000000000000 \(larger counts could not be written exactly\); lower it/,
+  },
+  {
+    name: 'a delay lying beyond max_days',
+    files: { 'scenario.json': scenario((s) => ((s as Record<string, unknown>).model = { delay: { family: 'gamma', mean: 40, sd: 2, max_days: 10 } })) },
+    args: simulate(),
+    message: /scenario\.json, field "model\.delay\.max_days": the gamma delay with mean 40 and sd 2 keeps almost none of its probability within 0 to 10 days/,
   },
   {
     name: 'nonexistent scenario file',

@@ -38,7 +38,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { WaxwaneError, inputError } from '../errors.js';
-import { addDays, parseIsoDate } from './dates.js';
+import { MAX_DAY, addDays, isoFromDay, parseIsoDate } from './dates.js';
 import { readJsonDocument, shown } from './json.js';
 import type { BetaChange, BetaScenario, TransmissionPath } from '../model/forecast.js';
 
@@ -241,6 +241,11 @@ export function resolveScenarios(
 ): ResolvedScenario[] {
   const first = parseIsoDate(firstDate) as number;
   const last = parseIsoDate(lastDate) as number;
+  if (last + horizon > MAX_DAY) {
+    throw new WaxwaneError(
+      `a ${horizon}-day forecast from ${lastDate} runs past ${isoFromDay(MAX_DAY)}, the last date waxwane handles; use a shorter --horizon`,
+    );
+  }
   const firstForecast = addDays(lastDate, 1);
   const lastForecast = addDays(lastDate, horizon);
   const toSim = (day: number) => seedDays + (day - first);

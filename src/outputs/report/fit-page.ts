@@ -9,7 +9,7 @@ import { html, num, type Html } from './html.js';
 import { renderPage } from './page.js';
 import type { RunFolder } from './run-folder.js';
 import { createContext, type SectionFunction } from './section.js';
-import { bandLevels, lastRow } from './series.js';
+import { bandLevels, lastRow, parameterRow } from './series.js';
 import { countsSection } from './sections/counts.js';
 import { reproductionSection, transmissionSection, infectionsSection } from './sections/trajectories.js';
 import { growthSection, doublingTime } from './sections/growth.js';
@@ -18,7 +18,6 @@ import { parametersSection } from './sections/parameters.js';
 import { diagnosticsSection, convergenceStatus } from './sections/diagnostics.js';
 import { detailsSection } from './sections/details.js';
 import { cautionsSection } from './sections/cautions.js';
-import { parameterRow } from './series.js';
 
 /** The sections of a run's report, in page order. */
 export const FIT_SECTIONS: readonly SectionFunction[] = [

@@ -251,7 +251,7 @@ export function parseRunRecord(text: string, file: string): RunRecord {
   const priorSet = parsePriorSet(JSON.stringify(field(file, raw, 'priors.set', isObject, 'an object')), `${file} (priors.set)`);
   const options = field(file, raw, 'options', isObject, 'an object');
   const seed = options.seed;
-  const identification = field(file, raw, 'identification', isArray, 'a list').map((x, i) => {
+  const identification = field(file, raw, 'identification', isArray, 'a list').map((_, i) => {
     const path = `identification.${i}`;
     const o = field(file, raw, path, isObject, 'an object');
     return {

@@ -134,6 +134,7 @@ footer { margin-top: 40px; font-size: 12.5px; color: var(--muted); border-top: 1
   figure.chart, table, .status, .caution-box, .mixing-row, .figure-card { break-inside: avoid; }
   h2, h3, h4 { break-after: avoid; }
   figure.chart, .figure-card { border-color: #bbbbbb; }
+  .figures { grid-template-columns: repeat(5, 1fr); }
   details > *:not(summary) { display: block; }
   details { display: block; }
   summary { color: #000000; }

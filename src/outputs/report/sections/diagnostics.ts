@@ -36,7 +36,7 @@ export function convergenceStatus(folder: RunFolder): Html {
       ? ''
       : html` Worst R-hat ${num(Math.max(...diagnostics.map((d) => (Number.isNaN(d.rhat) ? Infinity : d.rhat))), 4)}, lowest bulk ESS ${num(Math.min(...diagnostics.map((d) => d.ess_bulk)), 3)}, lowest tail ESS ${num(Math.min(...diagnostics.map((d) => d.ess_tail)), 3)}; ${failing} of ${diagnostics.length} parameters miss the rule.`;
   return run.converged
-    ? html`<div class="status ok" role="status"><strong><span aria-hidden="true">&#10003;</span> Converged.</strong> ${run.convergenceRule}.${detail}</div>`
+    ? html`<div class="status ok" role="status"><strong><span aria-hidden="true">&#10003;</span> Converged.</strong> The rule is met (${run.convergenceRule}).${detail}</div>`
     : html`<div class="status bad" role="alert"><strong><span aria-hidden="true">&#10007;</span> NOT converged.</strong> The rule (${run.convergenceRule}) is not met, so the chains may not describe the posterior: run longer (--warmup, --draws, --thin) before using these results.${detail}</div>`;
 }
 

@@ -13,10 +13,10 @@ import { BAND_OPACITY, COLOURS, SCENARIO_COLOURS } from '../theme.js';
 import { textTable } from './text-table.js';
 
 /** Quantities drawn, in page order, with their axis titles; the others of forecast.csv are listed. */
-const DRAWN: ReadonlyArray<[string, string]> = [
-  ['predicted_reports', 'reported cases per day'],
-  ['infections', 'new infections per day'],
-  ['effective_reproduction', 'R_t'],
+const DRAWN: ReadonlyArray<[quantity: string, heading: string, axis: string]> = [
+  ['predicted_reports', 'Reported cases per day (posterior predictive)', 'reports per day'],
+  ['infections', 'New infections per day', 'infections per day'],
+  ['effective_reproduction', 'Effective reproduction number R_t', 'R_t'],
 ];
 
 /** Quantities whose past is drawn with the observed counts. */
@@ -43,7 +43,7 @@ export async function forecastSection(ctx: ReportContext): Promise<Section> {
   const since = addDays(last, -(CONTEXT_DAYS - 1));
   const b = bandLevels(forecast.levels);
   const figures: Html[] = [];
-  for (const [q, title] of drawn) {
+  for (const [q, heading, axis] of drawn) {
     const past = fanSeries(summary, q).filter((p) => p.date >= since);
     const observed = REPORT_QUANTITIES.has(q) ? (data ?? []).filter((d) => d.cases !== null && d.date >= since).map((d) => ({ date: d.date, value: d.cases as number })) : [];
     const svg = await ctx.chart(
@@ -53,11 +53,11 @@ export async function forecastSection(ctx: ReportContext): Promise<Section> {
         past,
         observed,
         lastObserved: last,
-        yTitle: title,
+        yTitle: axis,
         ...(q === 'effective_reproduction' ? { reference: 1 } : {}),
       }),
     );
-    figures.push(html`<h3>${title}</h3>${figure(svg, { className: 'wide' })}`);
+    figures.push(html`<h3>${heading}</h3>${figure(svg, { className: 'wide' })}`);
   }
   const key: KeyEntry[] = [
     { kind: 'band', colour: COLOURS.context, opacity: BAND_OPACITY.inner + 0.1, label: `fit to date (last ${CONTEXT_DAYS} days)` },

@@ -16,7 +16,7 @@ import { bandLevels, parameterRow } from '../series.js';
 import { COLOURS } from '../theme.js';
 
 /** Reader-facing names of the scalar parameters (MODEL.md section 4). */
-export const PARAMETER_LABELS: Record<string, string> = {
+export const PARAMETER_LABELS = {
   start_reproduction: 'R at the start (R_start)',
   walk_scale: 'walk scale (sigma)',
   ascertainment: 'ascertainment (rho)',
@@ -24,7 +24,13 @@ export const PARAMETER_LABELS: Record<string, string> = {
   seed_infected: 'initially infected (i0)',
   latent_days: 'mean latent period L, days',
   infectious_days: 'mean infectious period D, days',
-};
+} as const;
+
+type Scalar = keyof typeof PARAMETER_LABELS;
+
+function isScalar(p: string): p is Scalar {
+  return Object.hasOwn(PARAMETER_LABELS, p);
+}
 
 type Spec = PositivePrior | UnitPrior | DispersionPrior;
 
@@ -56,9 +62,9 @@ export function priorEntries(set: PriorSet, parameters: readonly string[]): Prio
   const compiled = compilePriors(set.priors);
   const out: PriorEntry[] = [];
   for (const p of parameters) {
-    if (p in PARAMETER_LABELS) {
-      const prior = compiled[p as keyof typeof PARAMETER_LABELS & keyof typeof compiled] as CompiledPrior;
-      out.push({ parameter: p, label: PARAMETER_LABELS[p], description: describePrior(set.priors[p as keyof typeof PARAMETER_LABELS & keyof PriorSet['priors']] as Spec), quantile: (q) => prior.quantile(q) });
+    if (isScalar(p)) {
+      const prior: CompiledPrior = compiled[p];
+      out.push({ parameter: p, label: PARAMETER_LABELS[p], description: describePrior(set.priors[p]), quantile: (q) => prior.quantile(q) });
     } else if (p.startsWith('weekday_')) {
       const sd = set.priors.weekday_sd;
       out.push({ parameter: p, label: `weekday effect, ${p.slice('weekday_'.length)} (log scale)`, description: `normal(0, ${sd})`, quantile: (q) => normalQuantile(q, 0, sd) });

@@ -4,7 +4,7 @@
  * in long form).
  */
 import type { TextTable } from '../csv.js';
-import { table, num, type Column } from '../html.js';
+import { table, num, type Column, type Html } from '../html.js';
 
 const NUMERIC = /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i;
 
@@ -13,7 +13,7 @@ function readable(field: string): string {
   return NUMERIC.test(field.trim()) ? num(Number(field), 4) : field;
 }
 
-export function textTable(t: TextTable, caption: string, maxRows = 200): ReturnType<typeof table> {
+export function textTable(t: TextTable, caption: string, maxRows = 200): Html {
   const rows = Array.from({ length: Math.min(t.rows, maxRows) }, (_, i) => i);
   const columns: Column<number>[] = t.columns.map((c) => {
     const values = t.column(c);

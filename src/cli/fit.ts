@@ -26,7 +26,6 @@ import { formatNumber, toCsv } from '../outputs/format.js';
 import { createRng, deriveSeed } from '../util/rng.js';
 import { VERSION } from '../version.js';
 import type { Reporter } from './reporter.js';
-import { reportAfterRun } from './report.js';
 import { roundTripDraws } from '../io/run-folder.js';
 import { checkForecastOptionsNeedHorizon, computeForecast, planForecast, FORECAST_FILES, type ForecastOptions } from './forecast.js';
 
@@ -258,7 +257,7 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
       : 'not converged: see the warning above',
   );
   reporter.info(`outputs in ${o.out}/ (summary.csv, diagnostics.csv, draws.csv, data.csv, run.json${forecast === null ? '' : `, ${FORECAST_FILES.join(', ')}`})`);
-  if (o.report) await reportAfterRun(o.out, reporter);
+  if (o.report) await (await import('./report.js')).reportAfterRun(o.out, reporter);
   reporter.info(`caution: ${CAUTION}`);
   return !converged && o.requireConverged ? 3 : 0;
 }

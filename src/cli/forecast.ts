@@ -36,7 +36,8 @@ import type { Reporter } from './reporter.js';
 
 /** Seed stream of the derived daily quantities behind growth.csv and the nowcast. */
 const STREAM_DAILY = 0xf0cd;
-export const MAX_HORIZON = 365;
+import { MAX_HORIZON } from './limits.js';
+export { MAX_HORIZON };
 export const FORECAST_FILES = ['forecast.csv', 'scenarios.csv', 'nowcast.csv', 'growth.csv', 'forecast.json'] as const;
 
 /** The forecast options shared by `fit` and `forecast`. */

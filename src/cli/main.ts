@@ -9,10 +9,11 @@ import { dirname, resolve } from 'node:path';
 import { WaxwaneError, oneLineMessage } from '../errors.js';
 import { reportInternalError } from './internal-error.js';
 import { createReporter } from './reporter.js';
-import { runSimulate } from './simulate.js';
-import { runFit } from './fit.js';
-import { runReport, reportAfterRun, type ReportCliOptions } from './report.js';
-import { runForecast, MAX_HORIZON, type ForecastCliOptions } from './forecast.js';
+// Each command's module is loaded when that command runs: the report's charting library alone
+// takes a noticeable part of a second to load, which every other command would otherwise pay.
+import type { ReportCliOptions } from './report.js';
+import type { ForecastCliOptions } from './forecast.js';
+import { MAX_HORIZON } from './limits.js';
 import { availableParallelism } from 'node:os';
 import { DEFAULT_SAMPLER } from '../inference/fit.js';
 import { VERSION } from '../version.js';
@@ -63,7 +64,7 @@ export function buildProgram(): Command {
     .option('--force', 'write into a non-empty output folder', false)
     .option('--quiet', 'print nothing but warnings and errors', false)
     .action(async (scenario: string, opts: { out: string; seed: number; force: boolean; quiet: boolean }) => {
-      await leavingNoFolderOnFailure(opts.out, () => runSimulate(scenario, opts, createReporter({ quiet: opts.quiet })));
+      await leavingNoFolderOnFailure(opts.out, async () => (await import('./simulate.js')).runSimulate(scenario, opts, createReporter({ quiet: opts.quiet })));
     });
 
   program
@@ -96,7 +97,7 @@ export function buildProgram(): Command {
     .option('--quiet', 'print nothing but warnings and errors', false)
     .option('--no-report', 'do not write report.html')
     .action(async (cases: string, opts: FitCliOptions) => {
-      process.exitCode = await leavingNoFolderOnFailure(opts.out, () => runFit(cases, opts, createReporter({ quiet: opts.quiet })));
+      process.exitCode = await leavingNoFolderOnFailure(opts.out, async () => (await import('./fit.js')).runFit(cases, opts, createReporter({ quiet: opts.quiet })));
     });
 
   program
@@ -119,9 +120,9 @@ export function buildProgram(): Command {
     .action(async (run: string, opts: ForecastCliOptions & { report: boolean }) => {
       const reporter = createReporter({ quiet: opts.quiet });
       process.exitCode = await leavingNoFolderOnFailure(opts.out ?? run, async () => {
-        const code = await runForecast(run, opts, reporter);
+        const code = await (await import('./forecast.js')).runForecast(run, opts, reporter);
         // the report shows a run folder: it is written again when the forecast went into it
-        if (opts.report && (opts.out === undefined || resolve(opts.out) === resolve(run))) await reportAfterRun(run, reporter);
+        if (opts.report && (opts.out === undefined || resolve(opts.out) === resolve(run))) await (await import('./report.js')).reportAfterRun(run, reporter);
         return code;
       });
     });
@@ -133,7 +134,7 @@ export function buildProgram(): Command {
     .option('--out <file>', 'where to write the report (default: RUN/report.html)')
     .option('--quiet', 'print nothing but warnings and errors', false)
     .action(async (run: string, opts: ReportCliOptions) => {
-      process.exitCode = await runReport(run, opts, createReporter({ quiet: opts.quiet }));
+      process.exitCode = await (await import('./report.js')).runReport(run, opts, createReporter({ quiet: opts.quiet }));
     });
 
   return program;

@@ -23,6 +23,12 @@ export interface AdaptationSettings {
   priorWeight: number;
   /** Robbins-Monro step size gamma_t = t^-stepExponent, in (0.5, 1] (default 0.6) */
   stepExponent: number;
+  /**
+   * whether the proposal shape follows the chain's own running covariance (default true). When
+   * false the shape stays the one given (at init or by {@link installShape}, e.g. pooled over
+   * several chains); the running moments are still kept, for whoever pools them.
+   */
+  learnShape: boolean;
 }
 
 /**
@@ -45,6 +51,12 @@ export interface AdaptationState {
   logScale: number;
   /** lower Cholesky factor of the proposal shape in use (refreshed every `refreshEvery`) */
   cholesky: Float64Array;
+  /** shapes installed from outside by {@link installShape} so far */
+  installed: number;
+  /** value of t when the last shape was installed (the Robbins-Monro clock runs from there) */
+  restartedAt: number;
+  /** log scale given with the last installed shape (the shape itself is `priorCov`); 0 before any */
+  installedLogScale: number;
 }
 
 /** The frozen proposal: N(x, scale^2 L L^T). */
@@ -70,6 +82,12 @@ export interface AdaptationJSON {
   priorCov: number[];
   logScale: number;
   cholesky: number[];
+  /** absent in states saved before shapes could be installed (read as 0) */
+  installed?: number;
+  /** absent likewise (read as 0) */
+  restartedAt?: number;
+  /** absent likewise (read as 0) */
+  installedLogScale?: number;
 }
 
 /**
@@ -79,13 +97,16 @@ export interface AdaptationJSON {
  *   deviations of the n_t chain positions seen (rejected steps repeat the position and count),
  *   Sigma_0 the initial (Laplace) covariance and n0 = `priorWeight`. Its Cholesky factor is
  *   recomputed every `refreshEvery` updates, not every step (O(d^3) each time).
- * - Scale: log s_{t+1} = log s_t + t^-kappa (alpha_t - 0.234), with alpha_t the step's
- *   acceptance probability (less noisy than the accept indicator), starting at 2.38 / sqrt(d).
+ * - Scale: log s_{t+1} = log s_t + (t - t0)^-kappa (alpha_t - 0.234), with alpha_t the step's
+ *   acceptance probability (less noisy than the accept indicator), starting at 2.38 / sqrt(d);
+ *   t0 = 0, or the update at which a shape was last installed from outside.
  * - Reset: at update `resetAt`, the running moments restart from zero and the covariance
  *   estimate at that moment becomes Sigma_0. The first part of warm-up is spent travelling from
  *   an over-dispersed start to the bulk of the target; those positions would inflate the running
  *   covariance along the path for the rest of warm-up, while a fresh start keeps what was learnt
  *   (as the new prior) and drops the transient from the moments.
+ * - Fixed shape (`learnShape` false): the shape stays Sigma_0, or the last one installed by
+ *   {@link installShape}; only the scale adapts, and the moments are kept for pooling.
  *
  * @remarks Haario, Saksman and Tamminen (2001), "An adaptive Metropolis algorithm", Bernoulli
  *   7(2) (running covariance); Andrieu and Thoms (2008), "A tutorial on adaptive MCMC",
@@ -121,13 +142,17 @@ export function adaptiveMetropolis(settings: Partial<AdaptationSettings> = {}): 
         priorCov: new Float64Array(initialCov),
         logScale: Math.log(scale),
         cholesky,
+        installed: 0,
+        restartedAt: 0,
+        installedLogScale: 0,
       };
     },
     update(a, state, info) {
       const { settings: s } = a;
       a.t += 1;
-      a.logScale += Math.pow(a.t, -s.stepExponent) * (info.acceptProb - s.targetAccept);
+      a.logScale += Math.pow(a.t - a.restartedAt, -s.stepExponent) * (info.acceptProb - s.targetAccept);
       addToMoments(a, state.position);
+      if (!s.learnShape) return a;
       if (a.t === s.resetAt) {
         a.priorCov = adaptedCovariance(a);
         a.count = 0;
@@ -140,10 +165,40 @@ export function adaptiveMetropolis(settings: Partial<AdaptationSettings> = {}): 
       return a;
     },
     final(a) {
+      if (!a.settings.learnShape) return { cholesky: new Float64Array(a.cholesky), scale: Math.exp(a.logScale) };
       const factor = choleskyWithJitter(adaptedCovariance(a), a.dim);
       return { cholesky: factor ?? new Float64Array(a.cholesky), scale: Math.exp(a.logScale) };
     },
   };
+}
+
+/**
+ * Installs a proposal shape and global scale from outside (for example pooled over parallel
+ * chains between warm-up rounds, see pooled-adaptation.ts): the shape becomes Sigma_0 and the
+ * factor in use, the log scale is set, and the running moments restart from zero so that they
+ * hold only the draws made with this shape. The Robbins-Monro clock restarts too, so the
+ * scale re-adapts to the new shape with large steps first, as Stan restarts its step-size
+ * adaptation at the end of each metric window (Stan Reference Manual, "Automatic parameter
+ * tuning", from memory). In place, like `update`.
+ *
+ * @throws WaxwaneError if the shape is not a positive-definite dim x dim matrix or the log
+ *   scale is not finite.
+ */
+export function installShape(a: AdaptationState, cov: Float64Array, logScale: number): void {
+  const d = a.dim;
+  if (cov.length !== d * d) throw new WaxwaneError(`installed shape must be ${d} x ${d}, got ${cov.length} entries`);
+  if (!Number.isFinite(logScale)) throw new WaxwaneError(`installed log scale must be finite, got ${logScale}`);
+  const factor = choleskyWithJitter(cov, d);
+  if (factor === null) throw new WaxwaneError('installed shape is not positive definite');
+  a.priorCov = new Float64Array(cov);
+  a.cholesky.set(factor);
+  a.logScale = logScale;
+  a.installedLogScale = logScale;
+  a.restartedAt = a.t;
+  a.count = 0;
+  a.mean.fill(0);
+  a.m2.fill(0);
+  a.installed += 1;
 }
 
 /**
@@ -176,6 +231,9 @@ export function adaptationToJSON(a: Readonly<AdaptationState>): AdaptationJSON {
     priorCov: Array.from(a.priorCov),
     logScale: a.logScale,
     cholesky: Array.from(a.cholesky),
+    installed: a.installed,
+    restartedAt: a.restartedAt,
+    installedLogScale: a.installedLogScale,
   };
 }
 
@@ -196,6 +254,12 @@ export function adaptationFromJSON(json: AdaptationJSON): AdaptationState {
   if (!Number.isInteger(json.t) || json.t < 0) throw bad('"t" is not a non-negative integer');
   if (!Number.isInteger(json.count) || json.count < 0 || json.count > json.t) throw bad('"count" is out of range');
   if (typeof json.logScale !== 'number' || !Number.isFinite(json.logScale)) throw bad('"logScale" is not finite');
+  const installed = json.installed ?? 0;
+  if (!Number.isInteger(installed) || installed < 0) throw bad('"installed" is not a non-negative integer');
+  const restartedAt = json.restartedAt ?? 0;
+  if (!Number.isInteger(restartedAt) || restartedAt < 0 || restartedAt > json.t) throw bad('"restartedAt" is out of range');
+  const installedLogScale = json.installedLogScale ?? 0;
+  if (typeof installedLogScale !== 'number' || !Number.isFinite(installedLogScale)) throw bad('"installedLogScale" is not finite');
   return {
     dim: d,
     settings,
@@ -206,6 +270,9 @@ export function adaptationFromJSON(json: AdaptationJSON): AdaptationState {
     priorCov: vec('priorCov', d * d),
     logScale: json.logScale,
     cholesky: vec('cholesky', d * d),
+    installed,
+    restartedAt,
+    installedLogScale,
   };
 }
 
@@ -216,12 +283,14 @@ function resolveSettings(given: Partial<AdaptationSettings>, dim: number): Adapt
     resetAt: given.resetAt ?? 0,
     priorWeight: given.priorWeight ?? dim,
     stepExponent: given.stepExponent ?? 0.6,
+    learnShape: given.learnShape ?? true,
   };
   if (!(s.targetAccept > 0 && s.targetAccept < 1)) throw new WaxwaneError(`target acceptance must be in (0, 1), got ${s.targetAccept}`);
   if (!Number.isInteger(s.refreshEvery) || s.refreshEvery < 1) throw new WaxwaneError(`refreshEvery must be a positive integer, got ${s.refreshEvery}`);
   if (!Number.isInteger(s.resetAt) || s.resetAt < 0) throw new WaxwaneError(`resetAt must be a non-negative integer, got ${s.resetAt}`);
   if (!(s.priorWeight > 0) || !Number.isFinite(s.priorWeight)) throw new WaxwaneError(`priorWeight must be positive, got ${s.priorWeight}`);
   if (!(s.stepExponent > 0.5 && s.stepExponent <= 1)) throw new WaxwaneError(`stepExponent must be in (0.5, 1], got ${s.stepExponent}`);
+  if (typeof s.learnShape !== 'boolean') throw new WaxwaneError(`learnShape must be true or false, got ${String(s.learnShape)}`);
   return s;
 }
 

@@ -2,13 +2,20 @@
  * One chain of a fit as a self-contained job: the data and prior set to rebuild the model,
  * the start, the initial proposal and the chain's own seed. Run in a worker thread
  * (chain-worker.ts) or in this thread; the draws depend only on the job, never on where or
- * alongside what it ran, so a run is identical whatever the thread count.
+ * alongside what it ran, so a run is identical whatever the thread count. A job may stop at a
+ * warm-up round's end and hand back its snapshot, to be continued with a pooled proposal shape
+ * (fit.ts, pooled-adaptation.ts).
  */
-import { createModel, type ModelData, type EpidemicModel } from '../model/posterior.js';
+import { createModel, type ModelData } from '../model/posterior.js';
 import { createSamplingSpace } from '../model/sampling-space.js';
 import type { PriorSet } from '../model/prior-set.js';
-import { createRng } from '../util/rng.js';
+import { createRng, deriveSeed } from '../util/rng.js';
 import { ChainRunner, type ChainResult, type ChainSnapshot } from './chain.js';
+import type { AdaptationSettings } from './adaptation.js';
+import type { PooledShape } from './pooled-adaptation.js';
+
+/** Sub-stream of a chain's seed for the walk-scale draws. */
+const WALK_SCALE_STREAM = 0x5ca1e;
 
 export interface ModelInput {
   counts: number[];
@@ -30,6 +37,17 @@ export interface ChainJob {
   slice: number;
   /** continue from here instead of starting afresh */
   snapshot?: ChainSnapshot;
+  /** adaptation tuning (adaptation.ts); the runner's defaults otherwise */
+  adaptation?: Partial<AdaptationSettings>;
+  /** install this proposal shape first, unless the chain already has (pooled-adaptation.ts) */
+  shape?: PooledShape;
+  /** stop at this iteration (a warm-up round's end) and return a snapshot instead of draws */
+  stopAt?: number;
+}
+
+/** A job's outcome: the chain's draws, or its snapshot when the job stopped early. */
+export interface ChainJobResult extends ChainResult {
+  snapshot?: ChainSnapshot;
 }
 
 export interface ChainJobEvents {
@@ -47,19 +65,10 @@ export function modelFromInput(input: ModelInput) {
 }
 
 /**
- * Coordinates of the sampler space that get extra one-dimensional updates: the ascertainment,
- * which trades off against susceptible depletion along a curved direction that the joint
- * proposal crosses slowly.
- */
-export function coordinateMovesFor(model: EpidemicModel): number[] {
-  return [model.layout.ascertainment];
-}
-
-/**
  * Runs one chain in the sampler's coordinates (model/sampling-space.ts) and returns its draws
  * mapped back to the model's parameter vector, each with the model's log density.
  */
-export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnapshots = false): ChainResult {
+export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnapshots = false): ChainJobResult {
   const model = modelFromInput(job.model);
   const space = createSamplingSpace(model);
   const runner = job.snapshot
@@ -72,22 +81,41 @@ export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnap
         draws: job.draws,
         thin: job.thin,
         rng: createRng(job.seed),
-        coordinateMoves: coordinateMovesFor(model),
+        ...(job.adaptation !== undefined ? { adaptation: job.adaptation } : {}),
       });
+  if (job.shape !== undefined && runner.installedShapes < job.shape.round) {
+    runner.installShape(Float64Array.from(job.shape.cov), job.shape.logScale);
+  }
   const total = runner.totalIterations;
-  while (!runner.done) {
-    runner.run(job.slice);
+  const stopAt = Math.min(job.stopAt ?? total, total);
+  while (runner.iteration < stopAt) {
+    runner.run(Math.min(job.slice, stopAt - runner.iteration));
     events.progress?.(job.chain, runner.iteration, total, runner.warmingUp);
     if (wantSnapshots && !runner.done) events.snapshot?.(job.chain, runner.snapshot());
   }
+  if (!runner.done) {
+    return {
+      draws: new Float64Array(0),
+      logDensity: new Float64Array(0),
+      acceptRateWarmup: NaN,
+      acceptRateSampling: NaN,
+      finalScale: NaN,
+      snapshot: runner.snapshot(),
+    };
+  }
   const result = runner.result();
   const dim = space.dim;
-  const theta = new Float64Array(dim);
+  const dimModel = model.layout.dim;
+  const draws = new Float64Array(result.logDensity.length * dimModel);
+  // the walk scale, integrated out of the sampler's density, is drawn from its conditional
+  // with a stream of its own, so the chain's draws do not depend on it
+  const rng = createRng(deriveSeed(job.seed, WALK_SCALE_STREAM));
   for (let k = 0; k < result.logDensity.length; k++) {
-    const y = result.draws.subarray(k * dim, (k + 1) * dim);
-    if (!space.toTheta(y, theta)) throw new Error(`kept draw ${k} of chain ${job.chain} cannot be mapped to the model's parameters`);
-    y.set(theta);
+    const theta = draws.subarray(k * dimModel, (k + 1) * dimModel);
+    if (!space.toTheta(result.draws.subarray(k * dim, (k + 1) * dim), theta, rng)) {
+      throw new Error(`kept draw ${k} of chain ${job.chain} cannot be mapped to the model's parameters`);
+    }
     result.logDensity[k] = model.logDensity(theta);
   }
-  return result;
+  return { ...result, draws };
 }

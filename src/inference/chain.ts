@@ -9,6 +9,7 @@ import {
   adaptationFromJSON,
   adaptationToJSON,
   adaptiveMetropolis,
+  installShape,
   type AdaptationJSON,
   type AdaptationMachine,
   type AdaptationSettings,
@@ -18,7 +19,7 @@ import {
 import { sample } from './driver.js';
 import { buildMetropolisKernel, buildRwmKernel, initState } from './kernel.js';
 import { randomWalkInto } from './proposal.js';
-import { evaluate, type ChainState, type Kernel, type LogDensity } from './types.js';
+import type { ChainState, Kernel, LogDensity } from './types.js';
 
 export interface ChainOptions {
   logDensity: LogDensity;
@@ -37,19 +38,6 @@ export interface ChainOptions {
   adaptation?: Partial<AdaptationSettings>;
   /** starting global scale (default 2.38 / sqrt(dim)) */
   initialScale?: number;
-  /**
-   * Coordinates that also get their own one-dimensional random-walk update after every joint
-   * step (Metropolis within Gibbs), each with a step size tuned in warm-up toward acceptance
-   * 0.44 and frozen afterwards. For directions the joint proposal crosses slowly.
-   */
-  coordinateMoves?: number[];
-}
-
-/** One-dimensional updates of single coordinates: which, and their log step sizes. */
-export interface CoordinateMovesJSON {
-  index: number[];
-  logScale: number[];
-  accepted: number;
 }
 
 /** Everything needed to continue a chain, as plain JSON. */
@@ -73,8 +61,6 @@ export interface ChainSnapshot {
   /** kept draws so far, row-major (kept x dim) */
   keptDraws: number[];
   keptLogDensity: number[];
-  /** coordinate moves, when the chain has them */
-  coordinates?: CoordinateMovesJSON;
 }
 
 export interface ChainResult {
@@ -88,8 +74,6 @@ export interface ChainResult {
   acceptRateSampling: number;
   /** global scale of the frozen proposal */
   finalScale: number;
-  /** acceptance rate of the one-dimensional coordinate moves over the whole run (NaN without) */
-  acceptRateCoordinates: number;
 }
 
 /** The runner's working parts; one object, so `restore` can rebuild it without the constructor. */
@@ -112,9 +96,6 @@ interface Core {
   acceptedWarmup: number;
   acceptedSampling: number;
   kept: number;
-  coordIndex: Int32Array;
-  coordLogScale: Float64Array;
-  coordAccepted: number;
 }
 
 /**
@@ -159,9 +140,6 @@ export class ChainRunner {
       acceptedWarmup: 0,
       acceptedSampling: 0,
       kept: 0,
-      coordIndex: coordinateIndex(options.coordinateMoves ?? [], dim),
-      coordLogScale: new Float64Array((options.coordinateMoves ?? []).length).fill(Math.log(0.5)),
-      coordAccepted: 0,
     });
     if (options.warmup === 0) freeze(this.core);
   }
@@ -187,6 +165,11 @@ export class ChainRunner {
   /** True while adapting. */
   get warmingUp(): boolean {
     return this.core.iteration < this.core.warmup;
+  }
+
+  /** Proposal shapes installed from outside so far ({@link ChainRunner.installShape}). */
+  get installedShapes(): number {
+    return this.core.adapt.installed;
   }
 
   /** The current position and log density (a copy). */
@@ -215,7 +198,6 @@ export class ChainRunner {
       } else if (info.accepted) {
         c.acceptedSampling += 1;
       }
-      if (c.coordIndex.length > 0) coordinateMoves(c, warming);
       c.iteration += 1;
       left -= 1;
       if (warming && c.iteration === c.warmup) freeze(c);
@@ -228,6 +210,16 @@ export class ChainRunner {
     return todo;
   }
 
+  /**
+   * Replaces the warm-up proposal's shape and log scale, e.g. with ones pooled over parallel
+   * chains between warm-up rounds (adaptation.ts `installShape`; the running moments restart).
+   * Only while warming up: the kept draws must come from one fixed kernel.
+   */
+  installShape(cov: Float64Array, logScale: number): void {
+    if (!this.warmingUp) throw new WaxwaneError('a proposal shape can be installed only during warm-up');
+    installShape(this.core.adapt, cov, logScale);
+  }
+
   /** The result; only once the chain is done. */
   result(): ChainResult {
     if (!this.done) throw new Error(`chain not finished: ${this.iteration} of ${this.totalIterations} iterations done`);
@@ -238,8 +230,6 @@ export class ChainRunner {
       acceptRateWarmup: c.warmup > 0 ? c.acceptedWarmup / c.warmup : NaN,
       acceptRateSampling: c.draws > 0 ? c.acceptedSampling / (c.draws * c.thin) : NaN,
       finalScale: c.frozen!.scale,
-      acceptRateCoordinates:
-        c.coordIndex.length > 0 ? c.coordAccepted / (c.coordIndex.length * (c.warmup + c.draws * c.thin)) : NaN,
     };
   }
 
@@ -262,9 +252,6 @@ export class ChainRunner {
       acceptedSampling: c.acceptedSampling,
       keptDraws: Array.from(c.keptDraws.subarray(0, c.kept * c.dim)),
       keptLogDensity: Array.from(c.keptLogDensity.subarray(0, c.kept)),
-      ...(c.coordIndex.length > 0
-        ? { coordinates: { index: Array.from(c.coordIndex), logScale: Array.from(c.coordLogScale), accepted: c.coordAccepted } }
-        : {}),
     };
   }
 
@@ -303,9 +290,6 @@ export class ChainRunner {
       acceptedWarmup: s.acceptedWarmup,
       acceptedSampling: s.acceptedSampling,
       kept: s.keptLogDensity.length,
-      coordIndex: coordinateIndex(s.coordinates?.index ?? [], s.dim),
-      coordLogScale: Float64Array.from(s.coordinates?.logScale ?? []),
-      coordAccepted: s.coordinates?.accepted ?? 0,
     });
     if (s.frozen !== null) install(core, { cholesky: Float64Array.from(s.frozen.cholesky), scale: s.frozen.scale });
     const runner = Object.create(ChainRunner.prototype) as ChainRunner;
@@ -325,37 +309,6 @@ function assemble(parts: Omit<Core, 'warmKernel' | 'sampleKernel'>): Core {
     core.dim,
   );
   return core;
-}
-
-function coordinateIndex(index: readonly number[], dim: number): Int32Array {
-  for (const i of index) {
-    if (!Number.isInteger(i) || i < 0 || i >= dim) throw new WaxwaneError(`coordinate move index ${i} is outside 0..${dim - 1}`);
-  }
-  return Int32Array.from(index);
-}
-
-/**
- * One-dimensional random-walk Metropolis update of each listed coordinate in turn (Metropolis
- * within Gibbs). In warm-up each log step size follows a Robbins-Monro recursion toward
- * acceptance 0.44, the optimum for one-dimensional random-walk proposals (Roberts and
- * Rosenthal 2001, "Optimal scaling for various Metropolis-Hastings algorithms", Statistical
- * Science 16(4)); afterwards the step sizes are fixed, so the kept draws come from a fixed kernel.
- */
-function coordinateMoves(c: Core, warming: boolean): void {
-  const gamma = warming ? Math.pow(c.iteration + 1, -0.6) : 0;
-  for (let j = 0; j < c.coordIndex.length; j++) {
-    const i = c.coordIndex[j];
-    const y = new Float64Array(c.state.position);
-    y[i] += Math.exp(c.coordLogScale[j]) * c.rng.normal();
-    const lp = evaluate(c.logDensity, y);
-    const logRatio = lp - c.state.logDensity;
-    const acceptProb = logRatio >= 0 ? 1 : lp > -Infinity ? Math.exp(logRatio) : 0;
-    if (lp > -Infinity && Math.log(c.rng.uniform()) < logRatio) {
-      c.state = { position: y, logDensity: lp };
-      c.coordAccepted += 1;
-    }
-    if (warming) c.coordLogScale[j] += gamma * (acceptProb - 0.44);
-  }
 }
 
 function freeze(core: Core): void {

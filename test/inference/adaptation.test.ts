@@ -4,6 +4,7 @@ import {
   adaptationToJSON,
   adaptedCovariance,
   adaptiveMetropolis,
+  installShape,
   type AdaptationState,
 } from '../../src/inference/adaptation.js';
 import type { ChainState, StepInfo } from '../../src/inference/types.js';
@@ -170,5 +171,41 @@ describe('adaptationToJSON / adaptationFromJSON', () => {
     const json = adaptationToJSON(adaptiveMetropolis().init(2, identity(2)));
     expect(() => adaptationFromJSON({ ...json, mean: [0] })).toThrow(WaxwaneError);
     expect(() => adaptationFromJSON({ ...json, logScale: NaN })).toThrow(WaxwaneError);
+  });
+});
+
+describe('installShape', () => {
+  it('sets the factor, the scale and a fresh Robbins-Monro clock, and restarts the moments', () => {
+    const m = adaptiveMetropolis({ learnShape: false });
+    let a = m.init(2, identity(2));
+    for (const p of randomPoints(30, 2, 4)) a = m.update(a, at(p), info(0.5));
+    const cov = Float64Array.from([4, 1, 1, 2]);
+    installShape(a, cov, Math.log(0.7));
+    // Cholesky of [[4, 1], [1, 2]]: [[2, 0], [0.5, sqrt(1.75)]] (direct computation)
+    expect(a.cholesky[0]).toBeCloseTo(2, 14);
+    expect(a.cholesky[2]).toBeCloseTo(0.5, 14);
+    expect(a.cholesky[3]).toBeCloseTo(Math.sqrt(1.75), 14);
+    expect(a.count).toBe(0);
+    expect(a.installed).toBe(1);
+    expect(a.restartedAt).toBe(30);
+    a = m.update(a, at(Float64Array.from([0, 0])), info(0.734));
+    // first step after the install: (t - t0)^-0.6 = 1, so log s moves by 0.734 - 0.234
+    expect(a.logScale).toBeCloseTo(Math.log(0.7) + 0.5, 14);
+    // with learnShape false the factor stays and final() freezes it
+    for (const p of randomPoints(200, 2, 5)) a = m.update(a, at(p), info(0.234));
+    expect(Array.from(m.final(a).cholesky)).toEqual(Array.from(a.cholesky));
+    expect(a.cholesky[0]).toBeCloseTo(2, 14);
+  });
+
+  it('survives the JSON round trip and rejects a shape that is not positive definite', () => {
+    const m = adaptiveMetropolis({ learnShape: false });
+    const a = m.init(2, identity(2));
+    installShape(a, Float64Array.from([2, 0, 0, 3]), 0.1);
+    const back = adaptationFromJSON(JSON.parse(JSON.stringify(adaptationToJSON(a))));
+    expect(back.installed).toBe(1);
+    expect(back.settings.learnShape).toBe(false);
+    expect(adaptationToJSON(back)).toEqual(adaptationToJSON(a));
+    expect(() => installShape(a, Float64Array.from([1, 2, 2, 1]), 0)).toThrow(WaxwaneError);
+    expect(() => installShape(a, identity(3), 0)).toThrow(WaxwaneError);
   });
 });

@@ -162,6 +162,26 @@ describe('ChainRunner bookkeeping', () => {
     });
   }
 
+  it('continues bit for bit after a restore when a proposal shape was installed during warm-up', () => {
+    const shape = ar1Covariance([1, 2, 0.5], 0.5);
+    const withShape = (r: ChainRunner) => {
+      r.run(200);
+      r.installShape(shape, Math.log(1.1));
+      expect(r.installedShapes).toBe(1);
+      return r;
+    };
+    const o = options(21, { adaptation: { learnShape: false } });
+    const straight = withShape(new ChainRunner(o));
+    straight.run(5000);
+    const first = withShape(new ChainRunner({ ...o, rng: createRng(21) }));
+    first.run(150);
+    const resumed = ChainRunner.restore(JSON.parse(JSON.stringify(first.snapshot())) as ChainSnapshot, target.logDensity);
+    expect(resumed.installedShapes).toBe(1);
+    resumed.run(5000);
+    expect(Array.from(resumed.result().draws)).toEqual(Array.from(straight.result().draws));
+    expect(() => resumed.installShape(shape, 0)).toThrow(WaxwaneError);
+  });
+
   it('keeps every thin-th sampling state', () => {
     const thinned = runAll(options(12, { thin: 3, draws: 100 }));
     const full = runAll(options(12, { thin: 1, draws: 300 }));

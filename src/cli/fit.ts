@@ -5,12 +5,18 @@
 import { performance } from 'node:perf_hooks';
 import { basename } from 'node:path';
 import { WaxwaneError } from '../errors.js';
-import { readCases, checkPopulation, type CaseSeries } from '../io/cases.js';
+import { readCases, checkPopulation, type CaseData, type CaseSeries } from '../io/cases.js';
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
-import { fitPosterior, DEFAULT_SAMPLER, type SamplerOptions } from '../inference/fit.js';
+import { fitPosterior, prepareFit, DEFAULT_SAMPLER, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
+import { modelFromInput } from '../inference/chain-job.js';
+import type { ChainSnapshot } from '../inference/chain.js';
+import { CHECKPOINT_FILE, readCheckpoint, removeCheckpoint, writeCheckpoint, type Checkpoint, type RunFingerprint } from '../io/checkpoint.js';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
 import { dailyDraws } from '../outputs/derived.js';
+import { column } from '../outputs/draw-summary.js';
 import {
   summaryRows,
   summaryCsv,
@@ -49,7 +55,18 @@ export interface FitCliOptions extends ForecastOptions {
   force: boolean;
   /** write report.html after the outputs (false with --no-report) */
   report: boolean;
+  /** continue an interrupted run from DIR/checkpoint.json */
+  resume?: boolean;
+  /** several regions (cli/fit-regions.ts): the regions to fit, comma-separated */
+  regions?: string;
+  /** several regions: a CSV file `region,population` */
+  populations?: string;
+  /** several regions: `K/N`, the K-th of N shares of the regions */
+  shard?: string;
 }
+
+/** Seconds between two checkpoint writes while sampling. */
+const CHECKPOINT_SECONDS = 3;
 
 export const CAUTION =
   'These are model-based estimates resting on the assumptions stated in the model description ' +
@@ -79,10 +96,37 @@ function selectSeries(series: CaseSeries[], region: string | undefined, file: st
 }
 
 export async function runFit(casesFile: string, o: FitCliOptions, reporter: Reporter): Promise<number> {
+  // a file of several regions, without --region, fits every region (cli/fit-regions.ts)
+  if (o.region === undefined) {
+    const many = await import('./fit-regions.js');
+    if (many.wantsManyRegions(casesFile, o)) return many.runFitRegions(casesFile, o, reporter);
+  }
   const started = performance.now();
   // 1. validate every input before anything is written
   const data = readCases(casesFile, { dateColumn: o.dateColumn, countColumn: o.countColumn, regionColumn: o.regionColumn });
   const series = selectSeries(data.series, o.region, casesFile);
+  return fitSeries(casesFile, data, series, o, reporter, {}, started);
+}
+
+/** What a caller fitting many series learns of each fit beyond its output files. */
+export interface SeriesFitHooks {
+  /** the effective reproduction number R_t of every kept draw on the last observed day */
+  lastDayReproduction?(values: Float64Array): void;
+}
+
+/**
+ * Fits one series of a case file and writes the run folder `o.out`: the body of `waxwane fit`,
+ * which the multi-region path (cli/fit-regions.ts) also runs once per region.
+ */
+export async function fitSeries(
+  casesFile: string,
+  data: Pick<CaseData, 'sha256' | 'warnings'>,
+  series: CaseSeries,
+  o: FitCliOptions,
+  reporter: Reporter,
+  hooks: SeriesFitHooks = {},
+  started = performance.now(),
+): Promise<number> {
   const population = o.population ?? series.population;
   if (population === undefined) {
     throw new WaxwaneError(`${casesFile}: no population given; pass --population N or add a "population" column`);
@@ -93,7 +137,35 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
   checkForecastOptionsNeedHorizon(o);
   const forecastPlan = o.horizon > 0 ? planForecast(o, series.firstDate, series.dates[series.dates.length - 1], priorSet.model) : null;
   for (const w of data.warnings) reporter.warn(w);
-  prepareOutputDir(o.out, { force: o.force });
+  const fingerprint: RunFingerprint = {
+    input_sha256: data.sha256,
+    region: series.region,
+    population,
+    priors: priorSet,
+    chains: o.chains,
+    warmup: o.warmup,
+    draws: o.draws,
+    thin: o.thin,
+    seed: o.seed,
+    quantiles: o.quantiles,
+    date_column: o.dateColumn,
+    count_column: o.countColumn,
+    region_column: o.regionColumn,
+    horizon: o.horizon,
+    hold: o.hold ?? false,
+    scale: o.scale ?? null,
+    from: o.from ?? null,
+    until: o.until ?? null,
+    scenarios: o.scenarios ?? null,
+    triangle: o.triangle ?? null,
+  };
+  const checkpoint: Checkpoint | null = o.resume === true ? readCheckpoint(o.out, fingerprint) : null;
+  if (checkpoint === null && !o.force && existsSync(join(o.out, CHECKPOINT_FILE))) {
+    throw new WaxwaneError(
+      `${o.out}: holds an interrupted run (${CHECKPOINT_FILE}); pass --resume to continue it, or --force to start afresh`,
+    );
+  }
+  prepareOutputDir(o.out, { force: o.force || checkpoint !== null });
 
   // 2. fit
   const sampler: SamplerOptions = {
@@ -113,7 +185,54 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
   );
   const iterationsDone = new Map<number, number>();
   const totalIterations = o.chains * (o.warmup + o.draws * o.thin);
+  const snapshots = new Map<number, ChainSnapshot>();
+  const prepareStarted = performance.now();
+  let prepared: PreparedFit;
+  if (checkpoint !== null) {
+    for (const [chain, snap] of Object.entries(checkpoint.snapshots)) snapshots.set(Number(chain), snap);
+    const p = checkpoint.prepared;
+    prepared = {
+      model: modelFromInput(input),
+      mode: Float64Array.from(p.mode),
+      modeLogDensity: p.modeLogDensity,
+      laplaceAdjusted: p.laplaceAdjusted,
+      jobs: p.jobs,
+      warnings: p.warnings,
+    };
+    reporter.info(`resuming from ${join(o.out, CHECKPOINT_FILE)} (${snapshots.size} of ${o.chains} chains under way)`);
+  } else {
+    prepared = await Promise.resolve()
+      .then(() => prepareFit(input, sampler))
+      .catch((e: unknown) => {
+        if (!(e instanceof WaxwaneError)) throw e;
+        throw new WaxwaneError(`${casesFile}, population ${population}: ${e.message}`, e.exitCode);
+      });
+  }
+  const saveCheckpoint = () =>
+    writeCheckpoint(o.out, {
+      format: 'waxwane-checkpoint',
+      version: 1,
+      fingerprint,
+      prepared: {
+        mode: Array.from(prepared.mode),
+        modeLogDensity: prepared.modeLogDensity,
+        laplaceAdjusted: prepared.laplaceAdjusted,
+        jobs: prepared.jobs,
+        warnings: prepared.warnings,
+      },
+      snapshots: Object.fromEntries([...snapshots].map(([c, snap]) => [String(c), snap])),
+    });
+  const prepareSeconds = (performance.now() - prepareStarted) / 1000;
+  saveCheckpoint();
+  let lastSave = performance.now();
   const fit = await fitPosterior(input, sampler, {
+    snapshot: (chain, snap) => {
+      snapshots.set(chain, snap);
+      if (performance.now() - lastSave >= CHECKPOINT_SECONDS * 1000) {
+        saveCheckpoint();
+        lastSave = performance.now();
+      }
+    },
     progress: (chain, iteration) => {
       iterationsDone.set(chain, iteration);
       let done = 0;
@@ -122,7 +241,7 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
       const bar = '#'.repeat(Math.floor(pct / 4)).padEnd(25, '.');
       reporter.progress(`sampling [${bar}] ${pct}%`);
     },
-  }).catch((e: unknown) => {
+  }, { prepared, snapshots }).catch((e: unknown) => {
     reporter.done(); // end an open progress line, so the error gets a line of its own
     // the fit's own refusals (e.g. no start point with a finite density) come from the data
     if (!(e instanceof WaxwaneError)) throw e;
@@ -144,6 +263,7 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
     }
   }
   const daily = dailyDraws(model, allDraws, input.firstWeekday, createRng(deriveSeed(o.seed, 0x9e37)));
+  hooks.lastDayReproduction?.(column(daily.effective_reproduction, series.dates.length, series.dates.length - 1));
   const rows = summaryRows(model.layout, chains, daily, series.dates, o.quantiles);
   const ident = identification(model, chains);
   const warnings = [...data.warnings, ...fit.warnings];
@@ -229,7 +349,7 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
     threads: o.threads,
     versions: { node: process.versions.node, waxwane: VERSION },
     timings_seconds: {
-      prepare: round(fit.timings.prepareSeconds),
+      prepare: round(prepareSeconds),
       sampling: round(fit.timings.samplingSeconds),
       total: round((performance.now() - started) / 1000),
     },
@@ -246,6 +366,7 @@ export async function runFit(casesFile: string, o: FitCliOptions, reporter: Repo
   };
   out.add('run.json', JSON.stringify(run, null, 2) + '\n');
   out.commit();
+  removeCheckpoint(o.out);
 
   // 5. tell the user
   printKeyResults(reporter, rows, series.dates[series.dates.length - 1]);

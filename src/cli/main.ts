@@ -86,6 +86,7 @@ export function buildProgram(): Command {
     .option('--count-column <name>', 'name of the count column', 'cases')
     .option('--region-column <name>', 'name of the region column', 'region')
     .option('--require-converged', 'exit with code 3 when the chains have not converged', false)
+    .option('--resume', 'continue an interrupted run from the checkpoint in the output folder', false)
     .addOption(new Option('--horizon <days>', 'also forecast this many days past the last observation (0: no forecast)').default(0).argParser(intOption('--horizon', 0, MAX_HORIZON)))
     .option('--scenarios <file>', 'forecast scenario file (JSON; format in the README)')
     .option('--hold', 'add a forecast scenario "hold": beta held at its last value', false)
@@ -180,6 +181,13 @@ async function leavingNoFolderOnFailure<T>(out: string, run: () => T | Promise<T
 }
 
 export async function main(argv: string[]): Promise<void> {
+  // a reader that stops early (`waxwane fit ... 2>&1 | head`) closes the pipe: the run goes on
+  // and its files are written; only the messages are lost, which is what the reader asked for
+  const ignoreClosedPipe = (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'EPIPE') throw e;
+  };
+  process.stdout.on('error', ignoreClosedPipe);
+  process.stderr.on('error', ignoreClosedPipe);
   const program = buildProgram();
   program.exitOverride();
   // failures outside the awaited command (a stray callback, a rejected promise nobody awaits)

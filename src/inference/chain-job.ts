@@ -64,6 +64,9 @@ export function modelFromInput(input: ModelInput) {
   return createModel(data, input.priorSet);
 }
 
+/** Shortest time between two snapshots of a chain sent for checkpoints. */
+export const SNAPSHOT_INTERVAL_MS = 2000;
+
 /**
  * Runs one chain in the sampler's coordinates (model/sampling-space.ts) and returns its draws
  * mapped back to the model's parameter vector, each with the model's log density.
@@ -88,10 +91,16 @@ export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnap
   }
   const total = runner.totalIterations;
   const stopAt = Math.min(job.stopAt ?? total, total);
+  let lastSnapshot = Date.now();
   while (runner.iteration < stopAt) {
     runner.run(Math.min(job.slice, stopAt - runner.iteration));
     events.progress?.(job.chain, runner.iteration, total, runner.warmingUp);
-    if (wantSnapshots && !runner.done) events.snapshot?.(job.chain, runner.snapshot());
+    // snapshots (for checkpoints) at most every SNAPSHOT_INTERVAL_MS: when they are taken never
+    // changes the chain, only how much a crash can lose
+    if (wantSnapshots && !runner.done && Date.now() - lastSnapshot >= SNAPSHOT_INTERVAL_MS) {
+      events.snapshot?.(job.chain, runner.snapshot());
+      lastSnapshot = Date.now();
+    }
   }
   if (!runner.done) {
     return {

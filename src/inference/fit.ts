@@ -152,6 +152,8 @@ async function runPooled(jobs: ChainJob[], threads: number, events: ChainJobEven
       const results = await pool.run(behind.map((i) => ({ ...current[i]!, stopAt: ends[r] })), events, wantSnapshots);
       behind.forEach((i, k) => {
         current[i] = { ...current[i]!, snapshot: results[k]!.snapshot! };
+        // a round's end is a natural checkpoint: nothing of the round is lost after it
+        events.snapshot?.(current[i]!.chain, results[k]!.snapshot!);
       });
       const ahead = current.find((j) => installed(j) > r);
       const shape: PooledShape | null =

@@ -78,8 +78,18 @@ export function prepareOutputDir(dir: string, options: { force: boolean }): void
     }
     if (entries.some((e) => e !== ERROR_LOG) && !options.force) {
       throw new WaxwaneError(
-        `${dir}: the output folder is not empty (${entries.length} entries); pass --force to write over its files, or choose another folder`,
+        `${dir}: the output folder is not empty (${entries.length} ${entries.length === 1 ? 'entry' : 'entries'}); pass --force to write over its files, or choose another folder`,
       );
+    }
+    // temporary files of a run killed while writing (only ours: they carry TEMP_PREFIX)
+    for (const e of entries) {
+      if (e.startsWith(TEMP_PREFIX)) {
+        try {
+          unlinkSync(join(dir, e));
+        } catch {
+          // gone already, or not ours to remove: harmless either way
+        }
+      }
     }
     return;
   }

@@ -35,5 +35,5 @@ waxwane([
 ]);
 console.error(
   '\nDemo outputs: demo-output/larkmere/ (summary.csv, diagnostics.csv, draws.csv, data.csv, run.json;' +
-    ' forecast.csv, scenarios.csv, nowcast.csv, growth.csv, forecast.json)',
+    ' forecast.csv, scenarios.csv, nowcast.csv, growth.csv, forecast.json; report.html)',
 );

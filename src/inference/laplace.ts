@@ -131,15 +131,22 @@ export function dispersedStarts(
   const starts: Float64Array[] = [];
   for (let c = 0; c < count; c++) {
     let found: Float64Array | null = null;
-    for (let t = 0; t < maxTries && found === null; t++) {
-      for (let i = 0; i < n; i++) z[i] = rng.normal();
-      lowerTriangularMultiply(l, z, n, lz);
-      const x = new Float64Array(n);
-      for (let i = 0; i < n; i++) x[i] = mode[i]! + inflate * lz[i]!;
-      if (evaluate(logDensity, x) > -Infinity) found = x;
+    // where the support is narrow around the mode, draws closer in (halving the spread, three
+    // times at most) still give distinct starts; the deterministic sequence keeps runs reproducible
+    for (let level = 0, spread = inflate; level < 4 && found === null; level++, spread /= 2) {
+      for (let t = 0; t < maxTries && found === null; t++) {
+        for (let i = 0; i < n; i++) z[i] = rng.normal();
+        lowerTriangularMultiply(l, z, n, lz);
+        const x = new Float64Array(n);
+        for (let i = 0; i < n; i++) x[i] = mode[i]! + spread * lz[i]!;
+        if (evaluate(logDensity, x) > -Infinity) found = x;
+      }
     }
     if (found === null) {
-      throw new WaxwaneError(`no start with finite log density in ${maxTries} draws around the mode (inflate ${inflate}); use a smaller inflate`);
+      throw new WaxwaneError(
+        `no starting point with a finite posterior density was found near the mode (${4 * maxTries} tries); ` +
+          'the model cannot reproduce these data from nearby parameters: check the counts and the population, or try another prior set',
+      );
     }
     starts.push(found);
   }

@@ -13,6 +13,16 @@ import { createRng, deriveSeed } from '../util/rng.js';
 import { ChainRunner, type ChainResult, type ChainSnapshot } from './chain.js';
 import type { AdaptationSettings } from './adaptation.js';
 import type { PooledShape } from './pooled-adaptation.js';
+import { createWalkScaleMove } from './walk-scale-move.js';
+
+/**
+ * Random-walk iterations between two walk-scale moves (walk-scale-move.ts). A move costs about
+ * five simulations of the epidemic against one per random-walk step. Measured: every 4 doubled
+ * the lowest bulk ESS of 35-day fits (median 115 -> 250) and took the share of true walk scales
+ * in the lowest calibration rank bin from 13.5% to 7.5% (10% expected), at +50% sampling time on
+ * the 182-day demo, whose ESS it did not change; every 8 keeps the demo fit within 10 s.
+ */
+export const WALK_SCALE_MOVE_EVERY = 8;
 
 /** Sub-stream of a chain's seed for the walk-scale draws. */
 const WALK_SCALE_STREAM = 0x5ca1e;
@@ -35,6 +45,8 @@ export interface ChainJob {
   thin: number;
   /** iterations between progress reports and snapshots */
   slice: number;
+  /** shortest time between two snapshots sent for checkpoints (default SNAPSHOT_INTERVAL_MS) */
+  snapshotIntervalMs?: number;
   /** continue from here instead of starting afresh */
   snapshot?: ChainSnapshot;
   /** adaptation tuning (adaptation.ts); the runner's defaults otherwise */
@@ -74,8 +86,10 @@ export const SNAPSHOT_INTERVAL_MS = 2000;
 export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnapshots = false): ChainJobResult {
   const model = modelFromInput(job.model);
   const space = createSamplingSpace(model);
+  const step = createWalkScaleMove(model, space);
+  const auxiliary = step !== null ? { step, every: WALK_SCALE_MOVE_EVERY } : undefined;
   const runner = job.snapshot
-    ? ChainRunner.restore(job.snapshot, space.logDensity)
+    ? ChainRunner.restore(job.snapshot, space.logDensity, auxiliary)
     : new ChainRunner({
         logDensity: space.logDensity,
         start: Float64Array.from(job.start),
@@ -84,6 +98,7 @@ export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnap
         draws: job.draws,
         thin: job.thin,
         rng: createRng(job.seed),
+        ...(auxiliary !== undefined ? { auxiliary } : {}),
         ...(job.adaptation !== undefined ? { adaptation: job.adaptation } : {}),
       });
   if (job.shape !== undefined && runner.installedShapes < job.shape.round) {
@@ -97,7 +112,7 @@ export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnap
     events.progress?.(job.chain, runner.iteration, total, runner.warmingUp);
     // snapshots (for checkpoints) at most every SNAPSHOT_INTERVAL_MS: when they are taken never
     // changes the chain, only how much a crash can lose
-    if (wantSnapshots && !runner.done && Date.now() - lastSnapshot >= SNAPSHOT_INTERVAL_MS) {
+    if (wantSnapshots && !runner.done && Date.now() - lastSnapshot >= (job.snapshotIntervalMs ?? SNAPSHOT_INTERVAL_MS)) {
       events.snapshot?.(job.chain, runner.snapshot());
       lastSnapshot = Date.now();
     }

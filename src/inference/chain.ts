@@ -20,6 +20,31 @@ import { sample } from './driver.js';
 import { buildMetropolisKernel, buildRwmKernel, initState } from './kernel.js';
 import { randomWalkInto } from './proposal.js';
 import type { ChainState, Kernel, LogDensity } from './types.js';
+import type { AuxiliaryStep } from './walk-scale-move.js';
+
+/**
+ * A move made after every `every`-th iteration of the random walk (e.g. walk-scale-move.ts),
+ * with a one-dimensional proposal scale tuned during warm-up only.
+ */
+export interface AuxiliaryMove {
+  step: AuxiliaryStep;
+  /** iterations between moves (>= 1) */
+  every: number;
+}
+
+/** The auxiliary move's tuning and counts, as JSON. */
+export interface AuxiliarySnapshot {
+  logScale: number;
+  /** moves made during warm-up (the Robbins-Monro counter) */
+  tuned: number;
+  acceptedWarmup: number;
+  acceptedSampling: number;
+  movesSampling: number;
+}
+
+/** The auxiliary move's starting proposal sd (of the log walk scale) and acceptance target. */
+const AUX_START_LOG_SCALE = Math.log(0.5);
+const AUX_TARGET = 0.44;
 
 export interface ChainOptions {
   logDensity: LogDensity;
@@ -38,6 +63,8 @@ export interface ChainOptions {
   adaptation?: Partial<AdaptationSettings>;
   /** starting global scale (default 2.38 / sqrt(dim)) */
   initialScale?: number;
+  /** a move between the random-walk steps that leaves the same target invariant */
+  auxiliary?: AuxiliaryMove;
 }
 
 /** Everything needed to continue a chain, as plain JSON. */
@@ -61,6 +88,8 @@ export interface ChainSnapshot {
   /** kept draws so far, row-major (kept x dim) */
   keptDraws: number[];
   keptLogDensity: number[];
+  /** the auxiliary move's state, when the chain has one (absent in older snapshots) */
+  auxiliary?: AuxiliarySnapshot;
 }
 
 export interface ChainResult {
@@ -74,6 +103,10 @@ export interface ChainResult {
   acceptRateSampling: number;
   /** global scale of the frozen proposal */
   finalScale: number;
+  /** fraction of the auxiliary move's sampling proposals accepted (absent without one) */
+  auxiliaryAcceptRate?: number;
+  /** the auxiliary move's frozen proposal sd (absent without one) */
+  auxiliaryScale?: number;
 }
 
 /** The runner's working parts; one object, so `restore` can rebuild it without the constructor. */
@@ -96,6 +129,12 @@ interface Core {
   acceptedWarmup: number;
   acceptedSampling: number;
   kept: number;
+  auxMove: AuxiliaryMove | null;
+  aux: AuxiliarySnapshot;
+}
+
+function freshAux(): AuxiliarySnapshot {
+  return { logScale: AUX_START_LOG_SCALE, tuned: 0, acceptedWarmup: 0, acceptedSampling: 0, movesSampling: 0 };
 }
 
 /**
@@ -121,6 +160,8 @@ export class ChainRunner {
     if (!Number.isFinite(state.logDensity)) {
       throw new WaxwaneError(`start point has log density ${state.logDensity}; start inside the support (for example at the posterior mode)`);
     }
+    const auxMove = options.auxiliary ?? null;
+    if (auxMove !== null) checkCount('auxiliary move interval', auxMove.every, 1);
     const machine = adaptiveMetropolis({ resetAt: Math.floor(options.warmup / 4), ...options.adaptation });
     const adapt = machine.init(dim, initialCov, options.initialScale);
     this.core = assemble({
@@ -140,6 +181,8 @@ export class ChainRunner {
       acceptedWarmup: 0,
       acceptedSampling: 0,
       kept: 0,
+      auxMove,
+      aux: freshAux(),
     });
     if (options.warmup === 0) freeze(this.core);
   }
@@ -200,6 +243,7 @@ export class ChainRunner {
       }
       c.iteration += 1;
       left -= 1;
+      if (c.auxMove !== null && c.iteration % c.auxMove.every === 0) auxiliaryStep(c, warming);
       if (warming && c.iteration === c.warmup) freeze(c);
       if (!warming && (c.iteration - c.warmup) % c.thin === 0) {
         c.keptDraws.set(c.state.position, c.kept * c.dim);
@@ -230,6 +274,12 @@ export class ChainRunner {
       acceptRateWarmup: c.warmup > 0 ? c.acceptedWarmup / c.warmup : NaN,
       acceptRateSampling: c.draws > 0 ? c.acceptedSampling / (c.draws * c.thin) : NaN,
       finalScale: c.frozen!.scale,
+      ...(c.auxMove !== null
+        ? {
+            auxiliaryAcceptRate: c.aux.movesSampling > 0 ? c.aux.acceptedSampling / c.aux.movesSampling : NaN,
+            auxiliaryScale: Math.exp(c.aux.logScale),
+          }
+        : {}),
     };
   }
 
@@ -252,15 +302,17 @@ export class ChainRunner {
       acceptedSampling: c.acceptedSampling,
       keptDraws: Array.from(c.keptDraws.subarray(0, c.kept * c.dim)),
       keptLogDensity: Array.from(c.keptLogDensity.subarray(0, c.kept)),
+      ...(c.auxMove !== null ? { auxiliary: { ...c.aux } } : {}),
     };
   }
 
   /**
    * Continues a chain from a snapshot with the same log density. The log density at the saved
    * position is re-evaluated and must equal the saved value exactly (a different model or data
-   * would otherwise continue silently); a malformed snapshot is a `WaxwaneError`.
+   * would otherwise continue silently); a malformed snapshot is a `WaxwaneError`. `auxiliary`
+   * must be the move the chain was made with; a snapshot without its state starts it afresh.
    */
-  static restore(snapshot: ChainSnapshot, logDensity: LogDensity): ChainRunner {
+  static restore(snapshot: ChainSnapshot, logDensity: LogDensity, auxiliary?: AuxiliaryMove): ChainRunner {
     const s = validateSnapshot(snapshot);
     const state = initState(logDensity, Float64Array.from(s.position));
     if (!Object.is(state.logDensity, s.logDensity)) {
@@ -290,6 +342,8 @@ export class ChainRunner {
       acceptedWarmup: s.acceptedWarmup,
       acceptedSampling: s.acceptedSampling,
       kept: s.keptLogDensity.length,
+      auxMove: auxiliary ?? null,
+      aux: s.auxiliary !== undefined ? { ...s.auxiliary } : freshAux(),
     });
     if (s.frozen !== null) install(core, { cholesky: Float64Array.from(s.frozen.cholesky), scale: s.frozen.scale });
     const runner = Object.create(ChainRunner.prototype) as ChainRunner;
@@ -309,6 +363,27 @@ function assemble(parts: Omit<Core, 'warmKernel' | 'sampleKernel'>): Core {
     core.dim,
   );
   return core;
+}
+
+/**
+ * The auxiliary move after an iteration; during warm-up its log proposal sd takes a
+ * Robbins-Monro step (Robbins and Monro 1951; Andrieu and Thoms 2008, "A tutorial on adaptive
+ * MCMC", Statistics and Computing 18, section 5) toward acceptance 0.44, the optimum for a
+ * one-dimensional random walk (Roberts and Rosenthal 2001, "Optimal scaling for various
+ * Metropolis-Hastings algorithms", Statistical Science 16(4)); frozen afterwards.
+ */
+function auxiliaryStep(c: Core, warming: boolean): void {
+  const { state, acceptProb } = c.auxMove!.step(c.rng, c.state, c.aux.logScale);
+  const accepted = state !== c.state;
+  c.state = state;
+  if (warming) {
+    c.aux.tuned += 1;
+    c.aux.logScale += (acceptProb - AUX_TARGET) / Math.pow(c.aux.tuned, 0.6);
+    if (accepted) c.aux.acceptedWarmup += 1;
+  } else {
+    c.aux.movesSampling += 1;
+    if (accepted) c.aux.acceptedSampling += 1;
+  }
 }
 
 function freeze(core: Core): void {
@@ -349,5 +424,10 @@ function validateSnapshot(s: ChainSnapshot): ChainSnapshot {
   }
   if (s.adaptation?.dim !== s.dim) throw bad('adaptation state has the wrong dimension');
   if (s.adaptation.t !== Math.min(s.iteration, s.warmup)) throw bad('adaptation state does not match the iteration');
+  if (s.auxiliary !== undefined) {
+    const a = s.auxiliary;
+    if (a === null || typeof a !== 'object' || !Number.isFinite(a.logScale)) throw bad('bad auxiliary move state');
+    if (![a.tuned, a.acceptedWarmup, a.acceptedSampling, a.movesSampling].every((v) => isCount(v))) throw bad('bad auxiliary move counts');
+  }
   return s;
 }

@@ -30,6 +30,8 @@ export interface SamplerOptions {
   optimizerStarts: number;
   /** iterations between progress events and snapshots */
   slice: number;
+  /** shortest time between two snapshots of a chain (checkpoints); default 2 s */
+  snapshotIntervalMs?: number;
 }
 
 /**
@@ -123,6 +125,7 @@ export function prepareFit(input: ModelInput, options: SamplerOptions): Prepared
     draws: options.draws,
     thin: options.thin,
     slice: options.slice,
+    ...(options.snapshotIntervalMs !== undefined ? { snapshotIntervalMs: options.snapshotIntervalMs } : {}),
   }));
   return { model, mode: mode.position, modeLogDensity: mode.logDensity, laplaceAdjusted: laplace.adjusted, jobs, warnings };
 }

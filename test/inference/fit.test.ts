@@ -12,7 +12,9 @@ import { roundEnds } from '../../src/inference/pooled-adaptation.js';
 const priorSet = loadPriorSet(fileURLToPath(new URL('../../priors/default.json', import.meta.url)));
 const counts = [3, 5, 4, 6, 8, 7, 10, 12, 11, 15, 18, 17, 22, 25, 24, 30, 28, 33, 31, 35, 30, 32, 29, 27, 30, 25, 24, 26];
 const input = { counts, population: 50_000, firstWeekday: 2, priorSet };
-const options: SamplerOptions = { ...DEFAULT_SAMPLER, chains: 3, warmup: 800, draws: 60, thin: 2, optimizerStarts: 1, slice: 100, seed: 77 };
+// snapshots after every slice (checkpoints normally take one every 2 s at most), so that resumes are tried
+// from many moments
+const options: SamplerOptions = { ...DEFAULT_SAMPLER, chains: 3, warmup: 800, draws: 60, thin: 2, optimizerStarts: 1, slice: 100, seed: 77, snapshotIntervalMs: 0 };
 
 describe('fitPosterior with pooled warm-up rounds', () => {
   it('pools at all (the warm-up is long enough for rounds)', () => {

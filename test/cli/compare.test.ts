@@ -75,14 +75,14 @@ describe('waxwane compare (short fits)', () => {
     expect(scores.header.join(',')).toBe('prior_set,horizon,forecasts,wis,crps,log_score,coverage_50,coverage_90');
     expect(scores.rows).toHaveLength(2 * (7 + 1));
     const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
-    // the tables hold 6 significant digits
-    const close = (a: number, b: number) => expect(Math.abs(a - b), `${a} against ${b}`).toBeLessThanOrEqual(2e-5 * Math.max(1, Math.abs(b)));
+    // the tables hold 6 significant digits (coverages 4)
+    const close = (a: number, b: number, tol = 2e-5) => expect(Math.abs(a - b), `${a} against ${b}`).toBeLessThanOrEqual(tol * Math.max(1, Math.abs(b)));
     for (const set of ['smooth', 'flexible']) {
       const mine = bt.filter((r) => r[0] === set);
       const all = scores.rows.find((r) => r[0] === set && r[1] === 'all')!;
       expect(Number(all[2])).toBe(14);
       close(Number(all[3]), mean(mine.map((r) => Number(r[11]))));
-      close(Number(all[7]), mean(mine.map((r) => Number(r[15]))));
+      close(Number(all[7]), mean(mine.map((r) => Number(r[15]))), 1e-4);
       for (let h = 1; h <= 7; h++) {
         const row = scores.rows.find((r) => r[0] === set && r[1] === String(h))!;
         expect(Number(row[2])).toBe(2);

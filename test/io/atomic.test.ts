@@ -106,7 +106,7 @@ describe('prepareOutputDir', () => {
     writeFileSync(join(dir, 'earlier.csv'), 'keep me');
     const err = thrown(() => prepareOutputDir(dir, { force: false }));
     expect(err.exitCode).toBe(2);
-    expect(err.message).toBe(`${dir}: the output folder is not empty (1 entries); pass --force to write over its files, or choose another folder`);
+    expect(err.message).toBe(`${dir}: the output folder is not empty (1 entry); pass --force to write over its files, or choose another folder`);
     prepareOutputDir(dir, { force: true });
     expect(readFileSync(join(dir, 'earlier.csv'), 'utf8')).toBe('keep me');
   });

@@ -12,7 +12,7 @@
 import { performance } from 'node:perf_hooks';
 import { basename } from 'node:path';
 import { WaxwaneError } from '../errors.js';
-import { readCases, checkPopulation, type CaseSeries } from '../io/cases.js';
+import { readCases, checkPopulation } from '../io/cases.js';
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
@@ -25,7 +25,7 @@ import { longCsv } from '../outputs/draw-summary.js';
 import { formatNumber } from '../outputs/format.js';
 import { createRng, deriveSeed } from '../util/rng.js';
 import { VERSION } from '../version.js';
-import { CAUTION } from './fit.js';
+import { CAUTION, selectSeries } from './fit.js';
 import type { Reporter } from './reporter.js';
 import { backtestOrigins, backtestPriorSet, MIN_TRAINING_DAYS, type BacktestResult } from '../evaluation/backtest.js';
 import { pairedWisDifference, rankPriorSets, summarizeByHorizon, summarizeScores, type PairedDifference } from '../evaluation/comparison.js';
@@ -76,22 +76,6 @@ interface PriorEntry {
   set: PriorSet;
 }
 
-/** The series to compare on: the file's only one, or the one --region names. */
-function selectSeries(series: CaseSeries[], region: string | undefined, file: string): CaseSeries {
-  const names = series.map((x) => x.region).filter((x): x is string => x !== null);
-  const listed = `${names.slice(0, 10).join(', ')}${names.length > 10 ? ', ...' : ''}`;
-  if (region !== undefined) {
-    const s = series.find((x) => x.region === region);
-    if (s !== undefined) return s;
-    throw new WaxwaneError(
-      names.length === 0
-        ? `${file}: --region "${region}" was given but the file has no region column; drop --region or name the column with --region-column`
-        : `${file}: no region "${region}" in the file (regions: ${listed}); choose one of them with --region`,
-    );
-  }
-  if (series.length > 1) throw new WaxwaneError(`${file}: the file holds ${series.length} regions (${listed}); choose one with --region`);
-  return series[0]!;
-}
 
 /** Loads the prior sets and gives each a unique label: its name, else its file name. */
 function loadPriorEntries(args: readonly string[]): PriorEntry[] {

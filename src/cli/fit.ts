@@ -65,6 +65,29 @@ export interface FitCliOptions extends ForecastOptions {
   shard?: string;
 }
 
+/** The options a run records in run.json (those that shape its results: not threads, not the folder). */
+function runOptionsRecord(o: FitCliOptions): Record<string, unknown> {
+  return {
+    chains: o.chains,
+    warmup: o.warmup,
+    draws: o.draws,
+    thin: o.thin,
+    seed: o.seed,
+    quantiles: o.quantiles,
+    date_column: o.dateColumn,
+    count_column: o.countColumn,
+    region_column: o.regionColumn,
+    require_converged: o.requireConverged,
+    horizon: o.horizon,
+    scenarios: o.scenarios === undefined ? null : basename(o.scenarios),
+    hold: o.hold,
+    scale: o.scale ?? null,
+    from: o.from ?? null,
+    until: o.until ?? null,
+    triangle: o.triangle === undefined ? null : basename(o.triangle),
+  };
+}
+
 /** Seconds between two checkpoint writes while sampling. */
 const CHECKPOINT_SECONDS = 3;
 
@@ -73,7 +96,8 @@ export const CAUTION =
   '(SEIR dynamics, a smooth random walk in transmission, a fixed reporting delay, constant ascertainment). ' +
   'They inform, and do not replace, the judgement of local public-health authorities and trained epidemiologists.';
 
-function selectSeries(series: CaseSeries[], region: string | undefined, file: string): CaseSeries {
+/** The one series a single fit uses: the --region named, or the file's only series. */
+export function selectSeries(series: CaseSeries[], region: string | undefined, file: string): CaseSeries {
   if (region !== undefined) {
     const s = series.find((x) => x.region === region);
     if (s === undefined) {
@@ -137,28 +161,8 @@ export async function fitSeries(
   checkForecastOptionsNeedHorizon(o);
   const forecastPlan = o.horizon > 0 ? planForecast(o, series.firstDate, series.dates[series.dates.length - 1], priorSet.model) : null;
   for (const w of data.warnings) reporter.warn(w);
-  const fingerprint: RunFingerprint = {
-    input_sha256: data.sha256,
-    region: series.region,
-    population,
-    priors: priorSet,
-    chains: o.chains,
-    warmup: o.warmup,
-    draws: o.draws,
-    thin: o.thin,
-    seed: o.seed,
-    quantiles: o.quantiles,
-    date_column: o.dateColumn,
-    count_column: o.countColumn,
-    region_column: o.regionColumn,
-    horizon: o.horizon,
-    hold: o.hold ?? false,
-    scale: o.scale ?? null,
-    from: o.from ?? null,
-    until: o.until ?? null,
-    scenarios: o.scenarios ?? null,
-    triangle: o.triangle ?? null,
-  };
+  // a resume must match the input and every option that shapes the outputs (as run.json lists them)
+  const fingerprint: RunFingerprint = { input_sha256: data.sha256, region: series.region, population, priors: priorSet, ...runOptionsRecord(o) };
   const checkpoint: Checkpoint | null = o.resume === true ? readCheckpoint(o.out, fingerprint) : null;
   if (checkpoint === null && !o.force && existsSync(join(o.out, CHECKPOINT_FILE))) {
     throw new WaxwaneError(
@@ -327,25 +331,7 @@ export async function fitSeries(
     command: 'fit',
     input: { file: basename(casesFile), sha256: data.sha256, region: series.region, first_date: series.firstDate, last_date: series.dates[series.dates.length - 1], days: series.dates.length, population },
     priors: { file: basename(priorPath), set: priorSet },
-    options: {
-      chains: o.chains,
-      warmup: o.warmup,
-      draws: o.draws,
-      thin: o.thin,
-      seed: o.seed,
-      quantiles: o.quantiles,
-      date_column: o.dateColumn,
-      count_column: o.countColumn,
-      region_column: o.regionColumn,
-      require_converged: o.requireConverged,
-      horizon: o.horizon,
-      scenarios: o.scenarios === undefined ? null : basename(o.scenarios),
-      hold: o.hold,
-      scale: o.scale ?? null,
-      from: o.from ?? null,
-      until: o.until ?? null,
-      triangle: o.triangle === undefined ? null : basename(o.triangle),
-    },
+    options: runOptionsRecord(o),
     threads: o.threads,
     versions: { node: process.versions.node, waxwane: VERSION },
     timings_seconds: {

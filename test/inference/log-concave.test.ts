@@ -40,7 +40,7 @@ describe('createLogConcaveIntegrator().logIntegral', () => {
     //   = (2 / (s sqrt(2 pi))) (1/2) integral v^(-(n+1)/2) exp(-(v / s^2 + S2 / v) / 2) dv
     //   = (1 / (s sqrt(2 pi))) 2 (S2 s^2)^(p/2) K_|p|(sqrt(S2) / s),  p = (1 - n) / 2
     // (GIG normalising constant: Joergensen 1982, "Statistical properties of the generalized
-    // inverse Gaussian distribution", Lecture Notes in Statistics 9, eq. 2.2, from memory);
+    // inverse Gaussian distribution", Springer, LNS vol. 9, eq. 2.2, from memory);
     // n = 4 gives K_{3/2}(x) = sqrt(pi / (2x)) e^-x (1 + 1/x) (DLMF 10.49.12).
     const ig = createLogConcaveIntegrator();
     for (const [s, S2] of [

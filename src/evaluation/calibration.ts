@@ -15,8 +15,7 @@ import type { EpidemicModel } from '../model/posterior.js';
 import { createModel } from '../model/posterior.js';
 import type { PriorSet } from '../model/prior-set.js';
 import { toNatural } from '../model/layout.js';
-import { runTrajectory } from '../model/trajectory.js';
-import { dailyBeta } from '../outputs/derived.js';
+import { dailyBeta, trajectoryOf } from '../outputs/derived.js';
 import { createRng, deriveSeed, type Rng } from '../util/rng.js';
 import { checkFit, pooledDraws, type FitCheck } from './fit-record.js';
 import { drawFromPrior, simulateEpidemic } from './prior-draws.js';
@@ -37,15 +36,8 @@ export type CalibrationQuantity = (typeof CALIBRATION_QUANTITIES)[number];
 
 /** R_t = beta D S / N on the last observed day of the unconstrained vector `theta`. */
 function lastDayReproduction(model: EpidemicModel, theta: ArrayLike<number>): number {
-  const p = toNatural(model.layout, theta);
   const beta = dailyBeta(model, theta);
-  const traj = runTrajectory(
-    model.priorSet.model,
-    model.delay,
-    { population: model.population, seedInfected: p.seed_infected, latentDays: p.latent_days, infectiousDays: p.infectious_days, ascertainment: p.ascertainment, weekdayMultipliers: null },
-    beta,
-    0,
-  );
+  const { params: p, traj } = trajectoryOf(model, theta, 0, beta);
   if (!traj.ok) return NaN;
   const s = model.simDays - 1;
   return (beta[s] * p.infectious_days * traj.susceptible[s]) / model.population;

@@ -4,9 +4,9 @@
  * code (the code the fits and forecasts use).
  */
 import type { EpidemicModel } from '../model/posterior.js';
-import { toNatural, toUnconstrained } from '../model/layout.js';
-import { runTrajectory, drawNegBin } from '../model/trajectory.js';
-import { dailyBeta, weekdayMultipliers } from '../outputs/derived.js';
+import { toUnconstrained } from '../model/layout.js';
+import { drawNegBin } from '../model/trajectory.js';
+import { trajectoryOf } from '../outputs/derived.js';
 import type { Rng } from '../util/rng.js';
 
 /**
@@ -65,21 +65,7 @@ export interface SimulatedEpidemic {
  * the model's) and draws its reported counts with `rng`.
  */
 export function simulateEpidemic(model: EpidemicModel, theta: ArrayLike<number>, firstWeekday: number, rng: Rng): SimulatedEpidemic {
-  const p = toNatural(model.layout, theta);
-  const traj = runTrajectory(
-    model.priorSet.model,
-    model.delay,
-    {
-      population: model.population,
-      seedInfected: p.seed_infected,
-      latentDays: p.latent_days,
-      infectiousDays: p.infectious_days,
-      ascertainment: p.ascertainment,
-      weekdayMultipliers: weekdayMultipliers(p.weekday),
-    },
-    dailyBeta(model, theta),
-    firstWeekday,
-  );
+  const { params: p, traj } = trajectoryOf(model, theta, firstWeekday);
   const T = model.days;
   const S0 = model.seedDays;
   const counts = new Float64Array(T);

@@ -4,9 +4,9 @@
  * reports and posterior predictive reports, per observed day.
  */
 import type { EpidemicModel } from '../model/posterior.js';
-import { toNatural } from '../model/layout.js';
+import { toNatural, type NaturalParameters } from '../model/layout.js';
 import { fillWalk, fillBetaOverN } from '../model/transmission.js';
-import { runTrajectory, drawNegBin } from '../model/trajectory.js';
+import { runTrajectory, drawNegBin, type Trajectory } from '../model/trajectory.js';
 import { growthRate } from '../model/growth.js';
 import type { Rng } from '../util/rng.js';
 
@@ -44,6 +44,36 @@ export function dailyBeta(model: EpidemicModel, theta: ArrayLike<number>): Float
 }
 
 /**
+ * The epidemic of one unconstrained vector: its natural parameters and its trajectory under
+ * the daily transmission rate `beta` (by default the fitted walk over the simulated window;
+ * forecasts pass a longer one). `firstWeekday` is the weekday (0 = Monday) of the first
+ * observed day, for the weekday reporting multipliers.
+ */
+export function trajectoryOf(
+  model: EpidemicModel,
+  theta: ArrayLike<number>,
+  firstWeekday: number,
+  beta: Float64Array = dailyBeta(model, theta),
+): { params: NaturalParameters; traj: Trajectory } {
+  const params = toNatural(model.layout, theta);
+  const traj = runTrajectory(
+    model.priorSet.model,
+    model.delay,
+    {
+      population: model.population,
+      seedInfected: params.seed_infected,
+      latentDays: params.latent_days,
+      infectiousDays: params.infectious_days,
+      ascertainment: params.ascertainment,
+      weekdayMultipliers: weekdayMultipliers(params.weekday),
+    },
+    beta,
+    firstWeekday,
+  );
+  return { params, traj };
+}
+
+/**
  * Computes every daily quantity for each draw (rows of `draws`, row-major draws x dim).
  * `rng` gives the negative-binomial noise of the predicted reports.
  */
@@ -57,21 +87,7 @@ export function dailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekd
   const nI = model.priorSet.model.infectious_stages;
   for (let d = 0; d < n; d++) {
     const theta = draws.subarray(d * dim, (d + 1) * dim);
-    const p = toNatural(model.layout, theta);
-    const traj = runTrajectory(
-      model.priorSet.model,
-      model.delay,
-      {
-        population: model.population,
-        seedInfected: p.seed_infected,
-        latentDays: p.latent_days,
-        infectiousDays: p.infectious_days,
-        ascertainment: p.ascertainment,
-        weekdayMultipliers: weekdayMultipliers(p.weekday),
-      },
-      dailyBeta(model, theta),
-      firstWeekday,
-    );
+    const { params: p, traj } = trajectoryOf(model, theta, firstWeekday);
     const row = d * T;
     for (let t = 0; t < T; t++) {
       const beta = traj.transmissionRate[S0 + t];

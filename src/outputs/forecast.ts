@@ -10,12 +10,11 @@
  * first days of a longer one.
  */
 import type { EpidemicModel } from '../model/posterior.js';
-import { toNatural } from '../model/layout.js';
 import { forecastBeta, newStepCount, type BetaScenario } from '../model/forecast.js';
-import { runTrajectory, drawNegBin } from '../model/trajectory.js';
+import { drawNegBin } from '../model/trajectory.js';
 import { growthRate } from '../model/growth.js';
 import { createRng, deriveSeed } from '../util/rng.js';
-import { weekdayMultipliers } from './derived.js';
+import { trajectoryOf } from './derived.js';
 import { column, doublingOf, halvingOf, summarizeDraws, type LongRow } from './draw-summary.js';
 
 export const STREAM_WALK = 0xf0ca;
@@ -98,21 +97,7 @@ export function forecastScenario(
     const walkRng = createRng(deriveSeed(seed, STREAM_WALK, d));
     for (let j = 0; j < stepCount; j++) steps[j] = walkRng.normal();
     forecastBeta(model, theta, H, scenario, steps, beta);
-    const p = toNatural(model.layout, theta);
-    const traj = runTrajectory(
-      settings,
-      model.delay,
-      {
-        population: model.population,
-        seedInfected: p.seed_infected,
-        latentDays: p.latent_days,
-        infectiousDays: p.infectious_days,
-        ascertainment: p.ascertainment,
-        weekdayMultipliers: weekdayMultipliers(p.weekday),
-      },
-      beta,
-      firstWeekday,
-    );
+    const { params: p, traj } = trajectoryOf(model, theta, firstWeekday, beta);
     const row = d * H;
     if (!traj.ok) {
       failed++;

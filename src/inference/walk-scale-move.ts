@@ -5,8 +5,7 @@
  * over the sampler's coordinates reaches too rarely (small walk scales were then under-covered
  * in simulation-based calibration).
  */
-import type { EpidemicModel } from '../model/posterior.js';
-import type { SamplingSpace } from '../model/sampling-space.js';
+import type { RescaledDensities, SamplingSpace, WalkScaleDraw } from '../model/sampling-space.js';
 import type { Rng } from '../util/rng.js';
 import type { ChainState } from './types.js';
 
@@ -23,17 +22,19 @@ export type AuxiliaryStep = (
 
 /**
  * The interweaving move on the log walk scale, or null when nothing is integrated out
- * (`space.jointLogDensity` null: the sampler then works in theta, where u is a coordinate).
+ * (`space.walkRescaling` null: the sampler then works in theta, where u is a coordinate).
  *
  * @remarks
  * From a sampler point y with log density p(y) = integral of p(y, u) du:
- *   1. draw u ~ p(u | y) exactly (`space.toTheta`, a log-concave draw) and form theta, whose
- *      walk part is z_k = d_k / sigma (d_k the increments of log beta);
+ *   1. draw u ~ p(u | y) exactly (`walkRescaling.draw`, a log-concave draw): theta = theta(y, u),
+ *      whose walk part is z_k = d_k / sigma (d_k the increments of log beta);
  *   2. propose u' = u + e^logScale * N(0, 1) with every other coordinate of theta held fixed, z
  *      included (so the increments become d_k e^(u' - u)), and accept with probability
- *      min(1, p_theta(theta') / p_theta(theta)), p_theta the model's density in theta
- *      (`model.logDensity`: prior of u with its Jacobian, likelihood);
- *   3. map theta back to the sampler's coordinates (`space.fromTheta`) and drop u.
+ *      min(1, p_theta(theta') / p_theta(theta)), p_theta the model's density in theta;
+ *   3. map theta back to the sampler's coordinates and drop u.
+ * Steps 2 and 3 are one simulation (`walkRescaling.rescale` gives the new sampler point y', its
+ * density p(y') and the joint p(y', u')), and log p_theta = log p(y, u) + (K - 1) u, with
+ * log p(y, u) = log p(y) + log p(u | y) on the current side: two simulations per move in all.
  * Invariance: if y ~ p(y), step 1 makes (y, u) ~ p(y, u), i.e. theta ~ p_theta (the map from
  * theta to (y, u) is a bijection, model/sampling-space.ts); step 2 is a Metropolis step with a
  * symmetric proposal in theta, so it leaves p_theta invariant; mapping back gives
@@ -48,22 +49,24 @@ export type AuxiliaryStep = (
  * after. The proposal scale changes only during warm-up; the kept draws come from one fixed
  * kernel. A proposal that cannot be simulated has density zero and is rejected.
  */
-export function createWalkScaleMove(model: EpidemicModel, space: SamplingSpace): AuxiliaryStep | null {
-  if (space.jointLogDensity === null) return null;
-  const iu = model.layout.walkScale;
-  const theta = new Float64Array(model.layout.dim);
+export function createWalkScaleMove(space: SamplingSpace): AuxiliaryStep | null {
+  const rescaling = space.walkRescaling;
+  if (rescaling === null) return null;
+  const steps = space.walkSteps;
+  const drawn: WalkScaleDraw = { u: NaN, logConditional: NaN };
+  const moved: RescaledDensities = { marginal: -Infinity, joint: -Infinity };
+  const candidate = new Float64Array(space.dim);
   return (rng, state, logScale) => {
-    if (!space.toTheta(state.position, theta, rng)) return { state: state as ChainState, acceptProb: 0 };
-    const lp0 = model.logDensity(theta);
-    theta[iu] = theta[iu]! + Math.exp(logScale) * rng.normal();
-    const lp1 = model.logDensity(theta);
-    const logAlpha = lp1 - lp0;
+    if (!rescaling.draw(state.position, rng, drawn)) return { state: state as ChainState, acceptProb: 0 };
+    // log p_theta(theta) = log p(y) + log p(u | y) + (K - 1) u (model/sampling-space.ts)
+    const lp0 = state.logDensity + drawn.logConditional + steps * drawn.u;
+    const u1 = drawn.u + Math.exp(logScale) * rng.normal();
+    // a proposal that cannot be simulated has density zero: rejected (its uniform still drawn,
+    // so the stream does not depend on it)
+    const ok = rescaling.rescale(state.position, drawn.u, u1, candidate, moved);
+    const logAlpha = ok ? moved.joint + steps * u1 - lp0 : -Infinity;
     const acceptProb = logAlpha >= 0 ? 1 : logAlpha > -Infinity ? Math.exp(logAlpha) : 0;
     if (!(Math.log(rng.uniform()) < logAlpha)) return { state: state as ChainState, acceptProb };
-    const position = space.fromTheta(theta);
-    if (position === null) return { state: state as ChainState, acceptProb: 0 };
-    const logDensity = space.logDensity(position);
-    if (!(logDensity > -Infinity && logDensity < Infinity)) return { state: state as ChainState, acceptProb: 0 };
-    return { state: { position, logDensity }, acceptProb };
+    return { state: { position: new Float64Array(candidate), logDensity: moved.marginal }, acceptProb };
   };
 }

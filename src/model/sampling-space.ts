@@ -80,6 +80,41 @@ export interface SamplingSpace {
   readonly jointLogDensity: ((y: Float64Array, u: number) => number) | null;
   /** K - 1, the number of walk steps: log p_theta(theta(y, u)) = jointLogDensity(y, u) + (K - 1) u */
   readonly walkSteps: number;
+  /**
+   * The two halves of the walk-scale move (inference/walk-scale-move.ts) at the cost of two
+   * simulations of the epidemic; null when nothing is integrated out.
+   */
+  readonly walkRescaling: WalkRescaling | null;
+}
+
+/** Where {@link WalkRescaling} writes what it finds (owned by the caller, reused, no allocation). */
+export interface WalkScaleDraw {
+  /** the log walk scale drawn */
+  u: number;
+  /** log p(u | y), the log of its conditional density */
+  logConditional: number;
+}
+
+export interface RescaledDensities {
+  /** the sampler's log density at the new point, as `logDensity` gives it (to the last bit) */
+  marginal: number;
+  /** the joint log density of the new point and the moved log walk scale (`jointLogDensity`) */
+  joint: number;
+}
+
+export interface WalkRescaling {
+  /**
+   * Runs the epidemic of `y`, draws u ~ p(u | y) exactly with `rng` and keeps y's walk
+   * increments for {@link WalkRescaling.rescale}. False when y cannot be simulated.
+   */
+  draw(y: Float64Array, rng: Rng, out: WalkScaleDraw): boolean;
+  /**
+   * The sampler point of theta(y, u) with u moved to `u1` and every standardised walk step
+   * held, i.e. every walk increment of y times e^(u1 - u), written to `yOut`, with its
+   * densities (the joint one at u1) in `out`; one simulation. `y` must be the point of the
+   * last `draw` (its increments are kept there). False when it cannot be simulated.
+   */
+  rescale(y: Float64Array, u: number, u1: number, yOut: Float64Array, out: RescaledDensities): boolean;
 }
 
 /** log rho from logit rho, stable on both sides: -softplus(-u). */
@@ -102,6 +137,7 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
       fromTheta: (theta) => Float64Array.from(theta),
       jointLogDensity: null,
       walkSteps: L.knots - 1,
+      walkRescaling: null,
     };
   }
   const K = L.knots;
@@ -122,6 +158,10 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
   const full = new Float64Array(dimModel);
   const theta = new Float64Array(dimModel);
   const weekdayMult = new Float64Array(7);
+  // walk increments d_k of the last simulation, and those of the last walk-scale draw
+  const increments = new Float64Array(K);
+  const drawnIncrements = new Float64Array(K);
+  const densities: RescaledDensities = { marginal: -Infinity, joint: -Infinity };
   const logN = Math.log(N);
   const walkPrior = model.priors.walk_scale;
   const walkPriorAtZero = walkPrior.logDensityUnconstrained(0);
@@ -149,9 +189,13 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
 
   /**
    * Runs the epidemic from a model-length vector in sampler coordinates (walk scale e^x[iu]),
-   * filling `onsets`, theta and sumSq; false if it cannot be simulated.
+   * filling `onsets`, theta, sumSq and the walk increments `increments`; false if it cannot be
+   * simulated. With a finite `rescale` the flows x[1..K-1] are not read but written: those of
+   * the log transmission rates log beta_0 + rescale * (the increments of the last `draw`), each
+   * computed from the state reached so far and then used exactly as a flow read from x would be,
+   * so the run is the very one that x as written would give.
    */
-  function simulate(x: Float64Array, th: Float64Array): boolean {
+  function simulate(x: Float64Array, th: Float64Array, rescale = NaN): boolean {
     const uD = x[L.infectiousDays]!;
     const latent = Math.exp(x[L.latentDays]!);
     const infectious = Math.exp(uD);
@@ -163,17 +207,25 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
     const state = seir.state;
     let prev = 0;
     let ss = 0;
+    let target = 0;
     for (let k = 0; k < K; k++) {
       const S = state[0]!;
       let I = 0;
       for (let j = firstI; j <= lastI; j++) I += state[j]!;
       if (!(S > 0) || !(I > 0)) return false;
+      if (k > 0 && rescale === rescale) {
+        target += rescale * drawnIncrements[k]!;
+        x[k] = target + lr + (Math.log(S) - logN) + Math.log(I);
+      }
       const lb = x[k]! - lr - (Math.log(S) - logN) - Math.log(I);
-      if (k === 0) th[0] = lb + uD;
-      else {
+      if (k === 0) {
+        th[0] = lb + uD;
+        target = lb;
+      } else {
         const d = lb - prev;
         ss += d * d;
         th[k] = d / sigma;
+        increments[k] = d;
       }
       prev = lb;
       const b = Math.exp(lb) / N;
@@ -189,16 +241,22 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
     return true;
   }
 
-  /** marginal density when u is NaN, else the joint density at u */
-  function density(y: Float64Array, u: number): number {
-    const x = expand(y);
-    if (!simulate(x, theta)) return -Infinity;
+  /**
+   * After `simulate(x, theta)`: the marginal log density (walk scale integrated out) into
+   * out.marginal unless `jointOnly`, and for a finite u the joint one at u into out.joint;
+   * -Infinity for what is not computed or cannot be.
+   */
+  function finish(x: Float64Array, u: number, jointOnly: boolean, out: RescaledDensities): void {
+    out.marginal = -Infinity;
+    out.joint = -Infinity;
     // theta has sigma = 1, so the model's prior there holds g(0) = p_sigma(0) - S2 / 2; swap it
-    // for the log of the integral of exp(g), or for g(u)
-    const walkPart = u === u ? g(u) : walkIntegral();
-    if (!(walkPart > -Infinity && walkPart < Infinity)) return -Infinity;
-    const lp = model.logPriorUnconstrained(theta) - walkPriorAtZero + 0.5 * sumSq + walkPart;
-    if (!(lp > -Infinity)) return -Infinity;
+    // for the log of the integral of exp(g) (marginal), or for g(u) (joint)
+    const base = model.logPriorUnconstrained(theta) - walkPriorAtZero + 0.5 * sumSq;
+    const integral = jointOnly ? NaN : walkIntegral();
+    const lpMarginal = integral > -Infinity && integral < Infinity ? base + integral : -Infinity;
+    const gu = u === u ? g(u) : -Infinity;
+    const lpJoint = gu > -Infinity && gu < Infinity ? base + gu : -Infinity;
+    if (!(lpMarginal > -Infinity) && !(lpJoint > -Infinity)) return;
     convolveDelay(model.delay, onsets, model.seedDays, 0, T, delayed);
     let wd: Float64Array | null = null;
     if (L.weekday) {
@@ -213,9 +271,20 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
     }
     const rho = logistic(x[L.ascertainment]!);
     const phi = Math.exp(x[L.dispersion]!);
-    if (!(rho > 0) || !(phi > 0) || !(phi < Infinity)) return -Infinity;
-    const v = lp + negBinLogLikelihood(model.observations, delayed, rho, wd, model.weekdayOfDay, phi);
-    return v === v && v < Infinity ? v : -Infinity;
+    if (!(rho > 0) || !(phi > 0) || !(phi < Infinity)) return;
+    const loglik = negBinLogLikelihood(model.observations, delayed, rho, wd, model.weekdayOfDay, phi);
+    const m = lpMarginal + loglik;
+    const j = lpJoint + loglik;
+    out.marginal = m === m && m < Infinity ? m : -Infinity;
+    out.joint = j === j && j < Infinity ? j : -Infinity;
+  }
+
+  /** marginal density when u is NaN, else the joint density at u */
+  function density(y: Float64Array, u: number): number {
+    const x = expand(y);
+    if (!simulate(x, theta)) return -Infinity;
+    finish(x, u, u === u, densities);
+    return u === u ? densities.joint : densities.marginal;
   }
 
   function toTheta(y: Float64Array, th: Float64Array, rng: Rng): boolean {
@@ -259,6 +328,29 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
     return y.every(Number.isFinite) ? y : null;
   }
 
+  const walkRescaling: WalkRescaling = {
+    draw(y, rng, out) {
+      if (!simulate(expand(y), theta)) return false;
+      const logIntegral = walkIntegral();
+      if (!(logIntegral > -Infinity && logIntegral < Infinity)) return false;
+      const u = integrator.sample(rng);
+      drawnIncrements.set(increments);
+      out.u = u;
+      out.logConditional = g(u) - logIntegral;
+      return out.logConditional > -Infinity && out.logConditional < Infinity;
+    },
+    rescale(y, u, u1, yOut, out) {
+      out.marginal = -Infinity;
+      out.joint = -Infinity;
+      const x = expand(y);
+      if (!simulate(x, theta, Math.exp(u1 - u))) return false;
+      for (let k = 0; k < K; k++) yOut[k] = x[k]!;
+      for (let i = K; i < dim; i++) yOut[i] = y[i]!;
+      finish(x, u1, false, out);
+      return out.marginal > -Infinity && out.joint > -Infinity;
+    },
+  };
+
   return {
     kind: 'reported-flow',
     dim,
@@ -267,5 +359,6 @@ export function createSamplingSpace(model: EpidemicModel): SamplingSpace {
     fromTheta,
     jointLogDensity: (y, u) => (u > -Infinity && u < Infinity ? density(y, u) : -Infinity),
     walkSteps: steps,
+    walkRescaling,
   };
 }

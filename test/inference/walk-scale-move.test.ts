@@ -102,7 +102,7 @@ describe('createWalkScaleMove', () => {
   th[L.infectiousDays] = Math.log(4.8);
 
   it('moves only along the joint rescaling of the walk increments, with the sampler density cached', () => {
-    const step = createWalkScaleMove(model, space)!;
+    const step = createWalkScaleMove(space)!;
     const y0 = space.fromTheta(th)!;
     const start: ChainState = { position: y0, logDensity: space.logDensity(y0) };
     const rng = createRng(5);
@@ -131,6 +131,6 @@ describe('createWalkScaleMove', () => {
   it('is absent when the sampler works in theta (linear interpolation)', () => {
     const linear = { ...priorSet, model: { ...priorSet.model, interpolation: 'linear' as const } };
     const m = createModel({ counts, population: 50_000, firstWeekday: 2 }, linear);
-    expect(createWalkScaleMove(m, createSamplingSpace(m))).toBeNull();
+    expect(createWalkScaleMove(createSamplingSpace(m))).toBeNull();
   });
 });

@@ -148,6 +148,35 @@ describe('createSamplingSpace (step walk: reported-scale flows, walk scale integ
     expect(d).toBeLessThan(1.63 / Math.sqrt(n) + 0.002);
   });
 
+  it('walkRescaling: the conditional of u, and the rescaled point with both its densities', () => {
+    const r = space.walkRescaling!;
+    const drawn = { u: NaN, logConditional: NaN };
+    expect(r.draw(y, createRng(3), drawn)).toBe(true);
+    // p(u | y) = p(y, u) / p(y) (definition of a conditional density)
+    expect(drawn.logConditional).toBeCloseTo(space.jointLogDensity!(y, drawn.u) - space.logDensity(y), 9);
+    for (const u1 of [drawn.u - 0.7, drawn.u + 0.3, drawn.u + 1.1]) {
+      const yOut = new Float64Array(space.dim);
+      const out = { marginal: NaN, joint: NaN };
+      expect(r.draw(y, createRng(3), drawn)).toBe(true);
+      expect(r.rescale(y, drawn.u, u1, yOut, out)).toBe(true);
+      // the same point as mapping theta(y, u) with u moved to u1 (z held) back
+      const th = thetaOf(y, drawn.u);
+      th[L.walkScale] = u1;
+      const ref = space.fromTheta(th)!;
+      for (let i = 0; i < space.dim; i++) expect(yOut[i]).toBeCloseTo(ref[i]!, 9);
+      // and its densities are the ones the sampler gets there, to the last bit: a chain's cached
+      // density must equal a re-evaluation (checkpoints are checked that way)
+      expect(out.marginal).toBe(space.logDensity(yOut));
+      expect(out.joint).toBe(space.jointLogDensity!(yOut, u1));
+    }
+  });
+
+  it('walkRescaling refuses a point that cannot be simulated', () => {
+    const bad = Float64Array.from(y);
+    bad[0] = 80;
+    expect(space.walkRescaling!.draw(bad, createRng(1), { u: NaN, logConditional: NaN })).toBe(false);
+  });
+
   it('is -Infinity, never NaN, where the epidemic cannot be simulated', () => {
     const bad = Float64Array.from(y);
     bad[0] = 80; // an absurd infection flow: beta overflows
@@ -167,6 +196,7 @@ describe('createSamplingSpace (linear interpolation)', () => {
     expect(s.kind).toBe('model');
     expect(s.dim).toBe(linear.layout.dim);
     expect(s.jointLogDensity).toBeNull();
+    expect(s.walkRescaling).toBeNull();
     const th = thetaPoint();
     expect(s.logDensity(th)).toBe(linear.logDensity(th));
   });

@@ -16,21 +16,19 @@ import { readCases, checkPopulation } from '../io/cases.js';
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
-import { fitPosterior, DEFAULT_SAMPLER, type SamplerOptions } from '../inference/fit.js';
+import { fitPosterior, fitDailyDraws, DEFAULT_SAMPLER, type SamplerOptions } from '../inference/fit.js';
 import type { PriorSet } from '../model/prior-set.js';
-import { dailyDraws } from '../outputs/derived.js';
 import { summaryRows, type SummaryRow } from '../outputs/summary.js';
 import { identification, type Identification } from '../outputs/identification.js';
 import { longCsv } from '../outputs/draw-summary.js';
 import { formatNumber } from '../outputs/format.js';
-import { createRng, deriveSeed } from '../util/rng.js';
 import { VERSION } from '../version.js';
 import { CAUTION, selectSeries } from './fit.js';
 import type { Reporter } from './reporter.js';
 import { backtestOrigins, backtestPriorSet, MIN_TRAINING_DAYS, type BacktestResult } from '../evaluation/backtest.js';
 import { pairedWisDifference, rankPriorSets, summarizeByHorizon, summarizeScores, type PairedDifference } from '../evaluation/comparison.js';
 import { backtestCsv, backtestFitRows, fitsCsv, identificationCsv, rankingCsv, scoresCsv, type FitRow } from '../evaluation/compare-tables.js';
-import { checkFit, pooledDraws } from '../evaluation/fit-record.js';
+import { checkFit } from '../evaluation/fit-record.js';
 
 export interface CompareCliOptions {
   priors: string[];
@@ -62,8 +60,6 @@ export interface CompareCliOptions {
 /** Most prior sets compared at once (the report's colour palette has six). */
 export const MAX_PRIOR_SETS = 6;
 
-/** Seed stream of the derived quantities of the fits on every day. */
-const STREAM_ESTIMATES = 0xc0e5;
 
 /** Daily quantities kept in estimates.csv beside the scalar parameters. */
 export const ESTIMATE_QUANTITIES = ['effective_reproduction', 'growth_rate', 'infections', 'expected_reports'] as const;
@@ -144,8 +140,8 @@ export async function runCompare(casesFile: string, o: CompareCliOptions, report
 
   const firstWeekday = dayOfWeek(series.firstDate);
   const counts = Array.from(series.counts, (v) => (Number.isNaN(v) ? null : v)) as number[];
-  const fullSampler: SamplerOptions = { ...DEFAULT_SAMPLER, chains: o.chains, warmup: o.warmup, draws: o.draws, thin: o.thin, seed: o.seed, threads: o.threads };
-  const shortSampler: SamplerOptions = { ...fullSampler, warmup: o.backtestWarmup, draws: o.backtestDraws, thin: o.backtestThin };
+  const fullSampler: SamplerOptions = { ...DEFAULT_SAMPLER, chains: o.chains, warmup: o.warmup, draws: o.draws, thin: o.thin, seed: o.seed, threads: o.threads, derived: true };
+  const shortSampler: SamplerOptions = { ...fullSampler, warmup: o.backtestWarmup, draws: o.backtestDraws, thin: o.backtestThin, derived: false };
   const lastDate = series.dates[T - 1]!;
   reporter.info(
     `comparing ${priors.length} prior set${priors.length === 1 ? '' : 's'} (${priors.map((p) => p.label).join(', ')}) on ${T} days (${series.firstDate} to ${lastDate})` +
@@ -174,7 +170,7 @@ export async function runCompare(casesFile: string, o: CompareCliOptions, report
     const seconds = (performance.now() - t0) / 1000;
     fullSeconds += seconds;
     const chains = fit.chains.map((c) => c.draws);
-    const daily = dailyDraws(fit.model, pooledDraws(fit), firstWeekday, createRng(deriveSeed(o.seed, STREAM_ESTIMATES)));
+    const daily = fitDailyDraws(fit);
     const check = checkFit(fit);
     const fitWarnings = fit.warnings.map((w) => `prior set ${p.label}, fit on every day: ${w}`);
     if (!check.converged) {

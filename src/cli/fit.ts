@@ -9,13 +9,12 @@ import { readCases, checkPopulation, type CaseData, type CaseSeries } from '../i
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
-import { fitPosterior, prepareFit, DEFAULT_SAMPLER, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
+import { fitPosterior, fitDailyDraws, prepareFit, DEFAULT_SAMPLER, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
 import { modelFromInput } from '../inference/chain-job.js';
 import type { ChainSnapshot } from '../inference/chain.js';
 import { CHECKPOINT_FILE, readCheckpoint, removeCheckpoint, writeCheckpoint, type Checkpoint, type RunFingerprint } from '../io/checkpoint.js';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
-import { dailyDraws } from '../outputs/derived.js';
 import { column } from '../outputs/draw-summary.js';
 import {
   summaryRows,
@@ -29,7 +28,6 @@ import {
 } from '../outputs/summary.js';
 import { identification } from '../outputs/identification.js';
 import { formatNumber, toCsv } from '../outputs/format.js';
-import { createRng, deriveSeed } from '../util/rng.js';
 import { VERSION } from '../version.js';
 import type { Reporter } from './reporter.js';
 import { roundTripDraws } from '../io/run-folder.js';
@@ -180,6 +178,7 @@ export async function fitSeries(
     thin: o.thin,
     seed: o.seed,
     threads: o.threads,
+    derived: true,
   };
   const counts = Array.from(series.counts, (v) => (Number.isNaN(v) ? null : v)) as number[];
   const input = { counts, population, firstWeekday: dayOfWeek(series.firstDate), priorSet };
@@ -266,7 +265,7 @@ export async function fitSeries(
       off += c.length;
     }
   }
-  const daily = dailyDraws(model, allDraws, input.firstWeekday, createRng(deriveSeed(o.seed, 0x9e37)));
+  const daily = fitDailyDraws(fit);
   hooks.lastDayReproduction?.(column(daily.effective_reproduction, series.dates.length, series.dates.length - 1));
   const rows = summaryRows(model.layout, chains, daily, series.dates, o.quantiles);
   const ident = identification(model, chains);

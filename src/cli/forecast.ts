@@ -22,7 +22,7 @@ import { readRunFolder } from '../io/run-folder.js';
 import type { ModelSettings } from '../model/prior-set.js';
 import type { EpidemicModel } from '../model/posterior.js';
 import { delayEvidence, uninformedDelays, type TriangleCounts } from '../model/observed-delay.js';
-import { dailyDraws } from '../outputs/derived.js';
+import { dailyDraws } from '../model/derived.js';
 import { longCsv, type LongRow } from '../outputs/draw-summary.js';
 import { forecastRows, forecastScenario, FORECAST_KEYS, type ScenarioForecast } from '../outputs/forecast.js';
 import { formatNumber } from '../outputs/format.js';

@@ -15,7 +15,7 @@ import type { EpidemicModel } from '../model/posterior.js';
 import { createModel } from '../model/posterior.js';
 import type { PriorSet } from '../model/prior-set.js';
 import { toNatural } from '../model/layout.js';
-import { dailyBeta, trajectoryOf } from '../outputs/derived.js';
+import { dailyBeta, trajectoryOf } from '../model/derived.js';
 import { createRng, deriveSeed, type Rng } from '../util/rng.js';
 import { checkFit, pooledDraws, type FitCheck } from './fit-record.js';
 import { drawFromPrior, simulateEpidemic } from './prior-draws.js';

@@ -6,7 +6,7 @@
 import type { EpidemicModel } from '../model/posterior.js';
 import { toUnconstrained } from '../model/layout.js';
 import { drawNegBin } from '../model/trajectory.js';
-import { trajectoryOf } from '../outputs/derived.js';
+import { trajectoryOf } from '../model/derived.js';
 import type { Rng } from '../util/rng.js';
 
 /**

@@ -19,7 +19,8 @@ if (port !== null) {
         },
         req.snapshots,
       );
-      port.postMessage({ type: 'result', chain: req.job.chain, result }, [result.draws.buffer as ArrayBuffer, result.logDensity.buffer as ArrayBuffer]);
+      const buffers = [result.draws, result.logDensity, ...Object.values(result.daily ?? {})].map((a) => a.buffer as ArrayBuffer);
+      port.postMessage({ type: 'result', chain: req.job.chain, result }, buffers);
     } catch (e) {
       const err = e as Error;
       port.postMessage({ type: 'error', chain: req.job.chain, name: err.name, message: err.message, stack: err.stack });

@@ -16,7 +16,6 @@ import {
   type AdaptationState,
   type FrozenProposal,
 } from './adaptation.js';
-import { sample } from './driver.js';
 import { buildMetropolisKernel, buildRwmKernel, initState } from './kernel.js';
 import { randomWalkInto } from './proposal.js';
 import type { ChainState, Kernel, LogDensity } from './types.js';

@@ -9,14 +9,15 @@
 import { performance } from 'node:perf_hooks';
 import { WaxwaneError } from '../errors.js';
 import { deriveSeed, createRng } from '../util/rng.js';
-import { modelFromInput, type ChainJob, type ChainJobEvents, type ModelInput } from './chain-job.js';
+import { modelFromInput, type ChainJob, type ChainJobEvents, type ChainJobResult, type ModelInput } from './chain-job.js';
 import { poolRound, roundEnds, type PooledShape } from './pooled-adaptation.js';
-import type { ChainResult, ChainSnapshot } from './chain.js';
+import type { ChainSnapshot } from './chain.js';
 import { samplerMode } from './sampler-mode.js';
 import { laplaceCovariance, dispersedStarts } from './laplace.js';
 import { createChainPool } from './worker-pool.js';
 import type { EpidemicModel } from '../model/posterior.js';
 import { createSamplingSpace } from '../model/sampling-space.js';
+import { chainDailyDraws, concatDailyDraws, type DailyDraws } from '../model/derived.js';
 
 export interface SamplerOptions {
   chains: number;
@@ -32,6 +33,8 @@ export interface SamplerOptions {
   slice: number;
   /** shortest time between two snapshots of a chain (checkpoints); default 2 s */
   snapshotIntervalMs?: number;
+  /** compute the daily derived quantities in the chains' threads as each chain ends ({@link fitDailyDraws}) */
+  derived?: boolean;
 }
 
 /**
@@ -65,7 +68,8 @@ export interface PreparedFit {
 }
 
 export interface FitResult extends PreparedFit {
-  chains: ChainResult[];
+  /** in the order of `jobs` */
+  chains: ChainJobResult[];
   timings: { prepareSeconds: number; samplingSeconds: number };
 }
 
@@ -126,6 +130,7 @@ export function prepareFit(input: ModelInput, options: SamplerOptions): Prepared
     thin: options.thin,
     slice: options.slice,
     ...(options.snapshotIntervalMs !== undefined ? { snapshotIntervalMs: options.snapshotIntervalMs } : {}),
+    ...(options.derived === true ? { derived: true } : {}),
   }));
   return { model, mode: mode.position, modeLogDensity: mode.logDensity, laplaceAdjusted: laplace.adjusted, jobs, warnings };
 }
@@ -141,7 +146,7 @@ export function prepareFit(input: ModelInput, options: SamplerOptions): Prepared
  * `installedLogScale`) and hands it to the others; otherwise the round is pooled afresh from the
  * chains' moments, which then all belong to that round.
  */
-async function runPooled(jobs: ChainJob[], threads: number, events: ChainJobEvents): Promise<ChainResult[]> {
+async function runPooled(jobs: ChainJob[], threads: number, events: ChainJobEvents): Promise<ChainJobResult[]> {
   const wantSnapshots = events.snapshot !== undefined;
   const ends = roundEnds(jobs[0]?.warmup ?? 0);
   const pooling = ends.length > 0 && jobs.length > 1;
@@ -188,4 +193,16 @@ export async function fitPosterior(
   const chains = await runPooled(jobs, options.threads, events);
   const t2 = performance.now();
   return { ...prepared, chains, timings: { prepareSeconds: (t1 - t0) / 1000, samplingSeconds: (t2 - t1) / 1000 } };
+}
+
+/**
+ * The daily derived quantities of every kept draw, chain after chain (model/derived.ts): those
+ * the chains' threads computed (jobs run with `derived`), else computed here with the same
+ * per-chain streams, so the numbers are the same either way (e.g. after resuming a checkpoint
+ * written before `derived` was asked for).
+ */
+export function fitDailyDraws(fit: FitResult): DailyDraws {
+  return concatDailyDraws(
+    fit.chains.map((c, i) => c.daily ?? chainDailyDraws(fit.model, c.draws, fit.jobs[i]!.model.firstWeekday, fit.jobs[i]!.seed)),
+  );
 }

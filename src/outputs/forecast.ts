@@ -14,7 +14,7 @@ import { forecastBeta, newStepCount, type BetaScenario } from '../model/forecast
 import { drawNegBin } from '../model/trajectory.js';
 import { growthRate } from '../model/growth.js';
 import { createRng, deriveSeed } from '../util/rng.js';
-import { trajectoryOf } from './derived.js';
+import { trajectoryOf } from '../model/derived.js';
 import { column, doublingOf, halvingOf, summarizeDraws, type LongRow } from './draw-summary.js';
 
 export const STREAM_WALK = 0xf0ca;

@@ -28,7 +28,7 @@ import { toNatural } from '../model/layout.js';
 import { drawNegBin } from '../model/trajectory.js';
 import { delayEvidence, drawDelayCdf, type TriangleCounts } from '../model/observed-delay.js';
 import { createRng, deriveSeed } from '../util/rng.js';
-import { weekdayMultipliers } from './derived.js';
+import { weekdayMultipliers } from '../model/derived.js';
 import { column, summarizeDraws, type LongRow } from './draw-summary.js';
 
 export const STREAM_NOWCAST = 0xf0cc;

@@ -5,7 +5,7 @@
 import type { ParameterLayout } from '../model/layout.js';
 import { naturalValue } from '../model/layout.js';
 import { summarizeDiagnostics } from '../inference/diagnostics/index.js';
-import { DAILY_QUANTITIES, type DailyDraws } from './derived.js';
+import { DAILY_QUANTITIES, type DailyDraws } from '../model/derived.js';
 import { formatNumber, toCsv } from './format.js';
 import { quantileColumn, summarizeSample } from './stats.js';
 

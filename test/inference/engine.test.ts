@@ -10,7 +10,7 @@ import { readSimScenario } from '../../src/io/sim-scenario.js';
 import { simulatePlace } from '../../src/model/simulate.js';
 import { loadPriorSet } from '../../src/io/priors.js';
 import { fitPosterior, DEFAULT_SAMPLER, type FitResult } from '../../src/inference/fit.js';
-import { dailyDraws } from '../../src/outputs/derived.js';
+import { dailyDraws } from '../../src/model/derived.js';
 import { diagnosticRows, isConverged, summaryRows, CONVERGENCE, type SummaryRow } from '../../src/outputs/summary.js';
 import { identification, type Identification } from '../../src/outputs/identification.js';
 import { createRng, deriveSeed } from '../../src/util/rng.js';

@@ -5,7 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { fileURLToPath } from 'node:url';
 import { loadPriorSet } from '../../src/io/priors.js';
-import { fitPosterior, DEFAULT_SAMPLER, type SamplerOptions } from '../../src/inference/fit.js';
+import { fitPosterior, fitDailyDraws, DEFAULT_SAMPLER, type SamplerOptions } from '../../src/inference/fit.js';
+import { DAILY_QUANTITIES, chainDailyDraws } from '../../src/model/derived.js';
 import type { ChainSnapshot } from '../../src/inference/chain.js';
 import { roundEnds } from '../../src/inference/pooled-adaptation.js';
 
@@ -31,6 +32,24 @@ describe('fitPosterior with pooled warm-up rounds', () => {
     }
     // the chains differ from one another
     expect(Array.from(a.chains[1]!.draws)).not.toEqual(Array.from(a.chains[0]!.draws));
+  }, 60_000);
+
+  it('gives the same daily derived quantities computed in the workers or afterwards in this thread', async () => {
+    const a = await fitPosterior(input, { ...options, threads: 2, derived: true });
+    const b = await fitPosterior(input, { ...options, threads: 0 });
+    expect(a.chains.every((c) => c.daily !== undefined)).toBe(true);
+    expect(b.chains.every((c) => c.daily === undefined)).toBe(true);
+    const da = fitDailyDraws(a);
+    const db = fitDailyDraws(b);
+    const T = counts.length;
+    for (const q of DAILY_QUANTITIES) {
+      expect(da[q].length).toBe(3 * 60 * T);
+      expect(Array.from(da[q])).toEqual(Array.from(db[q]));
+    }
+    // chain 1's rows are chain 1's own: its first draw's R_t from its own parameter vector
+    const firstOfChain1 = a.chains[1]!.draws.subarray(0, a.model.layout.dim);
+    const one = chainDailyDraws(a.model, firstOfChain1, input.firstWeekday, a.jobs[1]!.seed);
+    expect(Array.from(da.effective_reproduction.subarray(60 * T, 60 * T + T))).toEqual(Array.from(one.effective_reproduction));
   }, 60_000);
 
   it('gives the same draws when resumed from the latest snapshots at any moment', async () => {

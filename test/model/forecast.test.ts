@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { forecastBeta, newStepCount, type BetaScenario } from '../../src/model/forecast.js';
-import { dailyBeta } from '../../src/outputs/derived.js';
+import { dailyBeta } from '../../src/model/derived.js';
 import { createRng } from '../../src/util/rng.js';
 import { priorSetWith, syntheticDraws } from '../outputs/synthetic.js';
 

@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { createRequire } from 'node:module';
 import { nowcastDraws, nowcastRows, NOWCAST_QUANTITIES } from '../../src/outputs/nowcast.js';
-import { dailyDraws, weekdayMultipliers } from '../../src/outputs/derived.js';
+import { dailyDraws, weekdayMultipliers } from '../../src/model/derived.js';
 import { toNatural } from '../../src/model/layout.js';
 import { chainLadderCdf, delayEvidence, type TriangleCounts } from '../../src/model/observed-delay.js';
 import { createRng } from '../../src/util/rng.js';

@@ -13,7 +13,7 @@ import { resolvePriorSet } from '../../src/io/priors.js';
 import { addDays } from '../../src/io/dates.js';
 import { createModel } from '../../src/model/posterior.js';
 import { toUnconstrained } from '../../src/model/layout.js';
-import { dailyDraws } from '../../src/outputs/derived.js';
+import { dailyDraws } from '../../src/model/derived.js';
 import { summaryRows, summaryCsv, diagnosticRows, diagnosticsCsv, drawsCsv, isConverged, DEFAULT_LEVELS } from '../../src/outputs/summary.js';
 import { identification } from '../../src/outputs/identification.js';
 import { formatNumber, toCsv } from '../../src/outputs/format.js';

@@ -3,12 +3,12 @@
  * rate, basic and effective reproduction numbers, growth rate, infections, onsets, expected
  * reports and posterior predictive reports, per observed day.
  */
-import type { EpidemicModel } from '../model/posterior.js';
-import { toNatural, type NaturalParameters } from '../model/layout.js';
-import { fillWalk, fillBetaOverN } from '../model/transmission.js';
-import { runTrajectory, drawNegBin, type Trajectory } from '../model/trajectory.js';
-import { growthRate } from '../model/growth.js';
-import type { Rng } from '../util/rng.js';
+import type { EpidemicModel } from './posterior.js';
+import { toNatural, type NaturalParameters } from './layout.js';
+import { fillWalk, fillBetaOverN } from './transmission.js';
+import { runTrajectory, drawNegBin, type Trajectory } from './trajectory.js';
+import { growthRate } from './growth.js';
+import { createRng, deriveSeed, type Rng } from '../util/rng.js';
 
 export const DAILY_QUANTITIES = [
   'transmission_rate',
@@ -105,4 +105,31 @@ export function dailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekd
     }
   }
   return out;
+}
+
+/** Sub-stream of a chain's seed for the negative-binomial noise of its predicted reports. */
+const PREDICTIVE_STREAM = 0x9e37;
+
+/**
+ * {@link dailyDraws} of one chain's draws, the predictive noise from a stream of the chain's own
+ * seed: the same numbers whether a worker thread computes them as the chain ends
+ * (inference/chain-job.ts) or the main thread does afterwards.
+ */
+export function chainDailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekday: number, chainSeed: number): DailyDraws {
+  return dailyDraws(model, draws, firstWeekday, createRng(deriveSeed(chainSeed, PREDICTIVE_STREAM)));
+}
+
+/** The chains' daily draws one after another (rows of chain 0, then chain 1, ...). */
+export function concatDailyDraws(parts: readonly DailyDraws[]): DailyDraws {
+  return Object.fromEntries(
+    DAILY_QUANTITIES.map((q) => {
+      const out = new Float64Array(parts.reduce((a, p) => a + p[q].length, 0));
+      let off = 0;
+      for (const p of parts) {
+        out.set(p[q], off);
+        off += p[q].length;
+      }
+      return [q, out];
+    }),
+  ) as DailyDraws;
 }

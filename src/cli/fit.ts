@@ -9,7 +9,8 @@ import { readCases, checkPopulation, type CaseData, type CaseSeries } from '../i
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
-import { fitPosterior, fitDailyDraws, prepareFit, DEFAULT_SAMPLER, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
+import { fitPosterior, fitDailyDraws, prepareFit, DEFAULT_SAMPLER, type FitResult, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
+import { createChainPool } from '../inference/worker-pool.js';
 import { modelFromInput } from '../inference/chain-job.js';
 import type { ChainSnapshot } from '../inference/chain.js';
 import { CHECKPOINT_FILE, readCheckpoint, removeCheckpoint, writeCheckpoint, type Checkpoint, type RunFingerprint } from '../io/checkpoint.js';
@@ -189,67 +190,75 @@ export async function fitSeries(
   const iterationsDone = new Map<number, number>();
   const totalIterations = o.chains * (o.warmup + o.draws * o.thin);
   const snapshots = new Map<number, ChainSnapshot>();
-  const prepareStarted = performance.now();
-  let prepared: PreparedFit;
-  if (checkpoint !== null) {
-    for (const [chain, snap] of Object.entries(checkpoint.snapshots)) snapshots.set(Number(chain), snap);
-    const p = checkpoint.prepared;
-    prepared = {
-      model: modelFromInput(input),
-      mode: Float64Array.from(p.mode),
-      modeLogDensity: p.modeLogDensity,
-      laplaceAdjusted: p.laplaceAdjusted,
-      jobs: p.jobs,
-      warnings: p.warnings,
-    };
-    reporter.info(`resuming from ${join(o.out, CHECKPOINT_FILE)} (${snapshots.size} of ${o.chains} chains under way)`);
-  } else {
-    prepared = await Promise.resolve()
-      .then(() => prepareFit(input, sampler))
-      .catch((e: unknown) => {
-        if (!(e instanceof WaxwaneError)) throw e;
-        throw new WaxwaneError(`${casesFile}, population ${population}: ${e.message}`, e.exitCode);
+  // the chains' workers start loading now, while this thread looks for the mode
+  const pool = createChainPool(o.threads, o.chains);
+  let fit: FitResult;
+  let prepareSeconds = 0;
+  try {
+    const prepareStarted = performance.now();
+    let prepared: PreparedFit;
+    if (checkpoint !== null) {
+      for (const [chain, snap] of Object.entries(checkpoint.snapshots)) snapshots.set(Number(chain), snap);
+      const p = checkpoint.prepared;
+      prepared = {
+        model: modelFromInput(input),
+        mode: Float64Array.from(p.mode),
+        modeLogDensity: p.modeLogDensity,
+        laplaceAdjusted: p.laplaceAdjusted,
+        jobs: p.jobs,
+        warnings: p.warnings,
+      };
+      reporter.info(`resuming from ${join(o.out, CHECKPOINT_FILE)} (${snapshots.size} of ${o.chains} chains under way)`);
+    } else {
+      prepared = await Promise.resolve()
+        .then(() => prepareFit(input, sampler))
+        .catch((e: unknown) => {
+          if (!(e instanceof WaxwaneError)) throw e;
+          throw new WaxwaneError(`${casesFile}, population ${population}: ${e.message}`, e.exitCode);
+        });
+    }
+    const saveCheckpoint = () =>
+      writeCheckpoint(o.out, {
+        format: 'waxwane-checkpoint',
+        version: 1,
+        fingerprint,
+        prepared: {
+          mode: Array.from(prepared.mode),
+          modeLogDensity: prepared.modeLogDensity,
+          laplaceAdjusted: prepared.laplaceAdjusted,
+          jobs: prepared.jobs,
+          warnings: prepared.warnings,
+        },
+        snapshots: Object.fromEntries([...snapshots].map(([c, snap]) => [String(c), snap])),
       });
-  }
-  const saveCheckpoint = () =>
-    writeCheckpoint(o.out, {
-      format: 'waxwane-checkpoint',
-      version: 1,
-      fingerprint,
-      prepared: {
-        mode: Array.from(prepared.mode),
-        modeLogDensity: prepared.modeLogDensity,
-        laplaceAdjusted: prepared.laplaceAdjusted,
-        jobs: prepared.jobs,
-        warnings: prepared.warnings,
+    prepareSeconds = (performance.now() - prepareStarted) / 1000;
+    saveCheckpoint();
+    let lastSave = performance.now();
+    fit = await fitPosterior(input, sampler, {
+      snapshot: (chain, snap) => {
+        snapshots.set(chain, snap);
+        if (performance.now() - lastSave >= CHECKPOINT_SECONDS * 1000) {
+          saveCheckpoint();
+          lastSave = performance.now();
+        }
       },
-      snapshots: Object.fromEntries([...snapshots].map(([c, snap]) => [String(c), snap])),
+      progress: (chain, iteration) => {
+        iterationsDone.set(chain, iteration);
+        let done = 0;
+        for (const v of iterationsDone.values()) done += v;
+        const pct = Math.floor((100 * done) / totalIterations);
+        const bar = '#'.repeat(Math.floor(pct / 4)).padEnd(25, '.');
+        reporter.progress(`sampling [${bar}] ${pct}%`);
+      },
+    }, { prepared, snapshots }, pool).catch((e: unknown) => {
+      reporter.done(); // end an open progress line, so the error gets a line of its own
+      // the fit's own refusals (e.g. no start point with a finite density) come from the data
+      if (!(e instanceof WaxwaneError)) throw e;
+      throw new WaxwaneError(`${casesFile}, population ${population}: ${e.message}`, e.exitCode);
     });
-  const prepareSeconds = (performance.now() - prepareStarted) / 1000;
-  saveCheckpoint();
-  let lastSave = performance.now();
-  const fit = await fitPosterior(input, sampler, {
-    snapshot: (chain, snap) => {
-      snapshots.set(chain, snap);
-      if (performance.now() - lastSave >= CHECKPOINT_SECONDS * 1000) {
-        saveCheckpoint();
-        lastSave = performance.now();
-      }
-    },
-    progress: (chain, iteration) => {
-      iterationsDone.set(chain, iteration);
-      let done = 0;
-      for (const v of iterationsDone.values()) done += v;
-      const pct = Math.floor((100 * done) / totalIterations);
-      const bar = '#'.repeat(Math.floor(pct / 4)).padEnd(25, '.');
-      reporter.progress(`sampling [${bar}] ${pct}%`);
-    },
-  }, { prepared, snapshots }).catch((e: unknown) => {
-    reporter.done(); // end an open progress line, so the error gets a line of its own
-    // the fit's own refusals (e.g. no start point with a finite density) come from the data
-    if (!(e instanceof WaxwaneError)) throw e;
-    throw new WaxwaneError(`${casesFile}, population ${population}: ${e.message}`, e.exitCode);
-  });
+  } finally {
+    await pool.close();
+  }
   reporter.done();
 
   // 3. summarise

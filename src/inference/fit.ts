@@ -14,7 +14,7 @@ import { poolRound, roundEnds, type PooledShape } from './pooled-adaptation.js';
 import type { ChainSnapshot } from './chain.js';
 import { samplerMode } from './sampler-mode.js';
 import { laplaceCovariance, dispersedStarts } from './laplace.js';
-import { createChainPool } from './worker-pool.js';
+import { createChainPool, type ChainPool } from './worker-pool.js';
 import type { EpidemicModel } from '../model/posterior.js';
 import { createSamplingSpace } from '../model/sampling-space.js';
 import { chainDailyDraws, concatDailyDraws, type DailyDraws } from '../model/derived.js';
@@ -146,53 +146,60 @@ export function prepareFit(input: ModelInput, options: SamplerOptions): Prepared
  * `installedLogScale`) and hands it to the others; otherwise the round is pooled afresh from the
  * chains' moments, which then all belong to that round.
  */
-async function runPooled(jobs: ChainJob[], threads: number, events: ChainJobEvents): Promise<ChainJobResult[]> {
+async function runPooled(jobs: ChainJob[], pool: ChainPool, events: ChainJobEvents): Promise<ChainJobResult[]> {
   const wantSnapshots = events.snapshot !== undefined;
   const ends = roundEnds(jobs[0]?.warmup ?? 0);
   const pooling = ends.length > 0 && jobs.length > 1;
   const current: ChainJob[] = pooling ? jobs.map((j) => ({ ...j, adaptation: { learnShape: false } })) : jobs.slice();
   const installed = (j: ChainJob) => j.snapshot?.adaptation.installed ?? 0;
-  const pool = createChainPool(threads);
-  try {
-    for (let r = 0; pooling && r < ends.length; r++) {
-      const behind = current.flatMap((j, i) => (installed(j) <= r ? [i] : []));
-      if (behind.length === 0) continue;
-      const results = await pool.run(behind.map((i) => ({ ...current[i]!, stopAt: ends[r] })), events, wantSnapshots);
-      behind.forEach((i, k) => {
-        current[i] = { ...current[i]!, snapshot: results[k]!.snapshot! };
-        // a round's end is a natural checkpoint: nothing of the round is lost after it
-        events.snapshot?.(current[i]!.chain, results[k]!.snapshot!);
-      });
-      const ahead = current.find((j) => installed(j) > r);
-      const shape: PooledShape | null =
-        ahead !== undefined
-          ? { cov: ahead.snapshot!.adaptation.priorCov, logScale: ahead.snapshot!.adaptation.installedLogScale ?? 0, round: r + 1 }
-          : poolRound(current.map((j) => j.snapshot!.adaptation), r + 1);
-      if (shape === null) throw new Error(`warm-up round ${r + 1} gave too few draws to pool`);
-      for (const i of behind) current[i] = { ...current[i]!, shape };
-    }
-    return await pool.run(current, events, wantSnapshots);
-  } finally {
-    await pool.close();
+  for (let r = 0; pooling && r < ends.length; r++) {
+    const behind = current.flatMap((j, i) => (installed(j) <= r ? [i] : []));
+    if (behind.length === 0) continue;
+    const results = await pool.run(behind.map((i) => ({ ...current[i]!, stopAt: ends[r] })), events, wantSnapshots);
+    behind.forEach((i, k) => {
+      current[i] = { ...current[i]!, snapshot: results[k]!.snapshot! };
+      // a round's end is a natural checkpoint: nothing of the round is lost after it
+      events.snapshot?.(current[i]!.chain, results[k]!.snapshot!);
+    });
+    const ahead = current.find((j) => installed(j) > r);
+    const shape: PooledShape | null =
+      ahead !== undefined
+        ? { cov: ahead.snapshot!.adaptation.priorCov, logScale: ahead.snapshot!.adaptation.installedLogScale ?? 0, round: r + 1 }
+        : poolRound(current.map((j) => j.snapshot!.adaptation), r + 1);
+    if (shape === null) throw new Error(`warm-up round ${r + 1} gave too few draws to pool`);
+    for (const i of behind) current[i] = { ...current[i]!, shape };
   }
+  return await pool.run(current, events, wantSnapshots);
 }
 
+/**
+ * A whole fit (see the file header). `resume` continues from a checkpoint's preparation and
+ * chain snapshots; `pool` runs the chains on a pool the caller started (and closes) itself,
+ * e.g. before its own call of {@link prepareFit}, else the fit starts and closes its own.
+ */
 export async function fitPosterior(
   input: ModelInput,
   options: SamplerOptions,
   events: ChainJobEvents = {},
   resume?: { prepared: PreparedFit; snapshots: Map<number, ChainSnapshot> },
+  pool?: ChainPool,
 ): Promise<FitResult> {
   const t0 = performance.now();
-  const prepared = resume?.prepared ?? prepareFit(input, options);
-  const jobs = prepared.jobs.map((j) => {
-    const snap = resume?.snapshots.get(j.chain);
-    return snap === undefined ? j : { ...j, snapshot: snap };
-  });
-  const t1 = performance.now();
-  const chains = await runPooled(jobs, options.threads, events);
-  const t2 = performance.now();
-  return { ...prepared, chains, timings: { prepareSeconds: (t1 - t0) / 1000, samplingSeconds: (t2 - t1) / 1000 } };
+  // the workers start loading while this thread looks for the mode
+  const chainPool = pool ?? createChainPool(options.threads, options.chains);
+  try {
+    const prepared = resume?.prepared ?? prepareFit(input, options);
+    const jobs = prepared.jobs.map((j) => {
+      const snap = resume?.snapshots.get(j.chain);
+      return snap === undefined ? j : { ...j, snapshot: snap };
+    });
+    const t1 = performance.now();
+    const chains = await runPooled(jobs, chainPool, events);
+    const t2 = performance.now();
+    return { ...prepared, chains, timings: { prepareSeconds: (t1 - t0) / 1000, samplingSeconds: (t2 - t1) / 1000 } };
+  } finally {
+    if (pool === undefined) await chainPool.close();
+  }
 }
 
 /**

@@ -20,7 +20,13 @@ export interface ChainPool {
   close(): Promise<void>;
 }
 
-export function createChainPool(threads: number): ChainPool {
+/**
+ * A pool of `threads` workers (none: the jobs run in this thread). `prestart` workers (at most
+ * `threads`) are started at once, so their module loading overlaps whatever this thread does
+ * before the first batch (the mode search of a fit); the others start with the first batch
+ * that needs them.
+ */
+export function createChainPool(threads: number, prestart = 0): ChainPool {
   if (threads <= 0) {
     return {
       run: async (jobs, events, snapshots) => jobs.map((job) => runChainJob(job, events, snapshots)),
@@ -30,12 +36,22 @@ export function createChainPool(threads: number): ChainPool {
   const workers: Worker[] = [];
   let closed = false;
   let broken: Error | null = null;
+  const start = () => {
+    const w = new Worker(WORKER_URL);
+    // an error before a batch listens (a worker that cannot start) breaks the pool: the next
+    // batch reports it
+    w.on('error', (e) => {
+      broken ??= e;
+    });
+    workers.push(w);
+  };
+  while (workers.length < Math.min(threads, prestart)) start();
 
   async function run(jobs: ChainJob[], events: ChainJobEvents, snapshots: boolean): Promise<ChainJobResult[]> {
     if (closed || broken !== null) throw broken ?? new Error('the chain pool is closed');
     const results: ChainJobResult[] = new Array(jobs.length);
     if (jobs.length === 0) return results;
-    while (workers.length < Math.min(threads, jobs.length)) workers.push(new Worker(WORKER_URL));
+    while (workers.length < Math.min(threads, jobs.length)) start();
     const active = workers.slice(0, Math.min(threads, jobs.length));
     let next = 0;
     await new Promise<void>((resolve, reject) => {

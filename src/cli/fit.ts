@@ -348,7 +348,16 @@ export async function fitSeries(
       total: round((performance.now() - started) / 1000),
     },
     mode_log_density: fit.modeLogDensity,
-    acceptance: fit.chains.map((c) => ({ warmup: round(c.acceptRateWarmup), sampling: round(c.acceptRateSampling), scale: round(c.finalScale) })),
+    acceptance: fit.chains.map((c) => ({
+      warmup: round(c.acceptRateWarmup),
+      sampling: round(c.acceptRateSampling),
+      scale: round(c.finalScale),
+      // the walk-scale move (inference/walk-scale-move.ts), when the sampler has one: off when
+      // warm-up found it moving the walk scale too little to be worth its cost
+      ...(c.auxiliaryScale !== undefined
+        ? { walk_scale_move: c.auxiliaryOff === true ? 'off' : 'on', walk_scale_move_acceptance: c.auxiliaryOff === true ? null : round(c.auxiliaryAcceptRate ?? NaN) }
+        : {}),
+    })),
     converged,
     convergence_rule: `every sampled parameter: R-hat <= ${CONVERGENCE.maxRhat}, bulk and tail ESS >= ${CONVERGENCE.minEss}`,
     max_rhat: worstRhat,

@@ -11,14 +11,16 @@ import type { ChainState } from './types.js';
 
 /**
  * One step of a move applied between the random-walk steps (inference/chain.ts): from `state`,
- * with proposal log sd `logScale`, returns the next state (the very same object when it stays)
- * and the move's acceptance probability (tuned toward a target during warm-up only).
+ * with proposal log sd `logScale`, returns the next state (the very same object when it stays),
+ * the move's acceptance probability (tuned toward a target during warm-up only) and the value
+ * of the moved coordinate before the move (NaN when there was none), from which warm-up judges
+ * how far the move carries it (chain.ts AUX_MIN_JUMP).
  */
 export type AuxiliaryStep = (
   rng: Rng,
   state: Readonly<ChainState>,
   logScale: number,
-) => { state: ChainState; acceptProb: number };
+) => { state: ChainState; acceptProb: number; before: number };
 
 /**
  * The interweaving move on the log walk scale, or null when nothing is integrated out
@@ -57,7 +59,7 @@ export function createWalkScaleMove(space: SamplingSpace): AuxiliaryStep | null 
   const moved: RescaledDensities = { marginal: -Infinity, joint: -Infinity };
   const candidate = new Float64Array(space.dim);
   return (rng, state, logScale) => {
-    if (!rescaling.draw(state.position, rng, drawn)) return { state: state as ChainState, acceptProb: 0 };
+    if (!rescaling.draw(state.position, rng, drawn)) return { state: state as ChainState, acceptProb: 0, before: NaN };
     // log p_theta(theta) = log p(y) + log p(u | y) + (K - 1) u (model/sampling-space.ts)
     const lp0 = state.logDensity + drawn.logConditional + steps * drawn.u;
     const u1 = drawn.u + Math.exp(logScale) * rng.normal();
@@ -66,7 +68,7 @@ export function createWalkScaleMove(space: SamplingSpace): AuxiliaryStep | null 
     const ok = rescaling.rescale(state.position, drawn.u, u1, candidate, moved);
     const logAlpha = ok ? moved.joint + steps * u1 - lp0 : -Infinity;
     const acceptProb = logAlpha >= 0 ? 1 : logAlpha > -Infinity ? Math.exp(logAlpha) : 0;
-    if (!(Math.log(rng.uniform()) < logAlpha)) return { state: state as ChainState, acceptProb };
-    return { state: { position: new Float64Array(candidate), logDensity: moved.marginal }, acceptProb };
+    if (!(Math.log(rng.uniform()) < logAlpha)) return { state: state as ChainState, acceptProb, before: drawn.u };
+    return { state: { position: new Float64Array(candidate), logDensity: moved.marginal }, acceptProb, before: drawn.u };
   };
 }

@@ -18,8 +18,8 @@ const toyStep: AuxiliaryStep = (rng, state, logScale) => {
   const lp1 = logDensity(position);
   const logAlpha = lp1 - state.logDensity;
   const acceptProb = logAlpha >= 0 ? 1 : Math.exp(logAlpha);
-  if (Math.log(rng.uniform()) < logAlpha) return { state: { position, logDensity: lp1 }, acceptProb };
-  return { state: state as ChainState, acceptProb };
+  if (Math.log(rng.uniform()) < logAlpha) return { state: { position, logDensity: lp1 }, acceptProb, before: state.position[0]! };
+  return { state: state as ChainState, acceptProb, before: state.position[0]! };
 };
 const identity2 = Float64Array.from([1, 0, 0, 1]);
 const options = (seed: number) => ({
@@ -75,6 +75,44 @@ describe('ChainRunner with an auxiliary move', () => {
       expect(resumed.result().auxiliaryScale).toBe(whole.result().auxiliaryScale);
     });
   }
+
+  it('keeps a move that carries its coordinate far, and turns off one that barely moves it', () => {
+    // on N(0, I) a move of coordinate 0 alone jumps about 0.44 x 2.4^2 / 1 ~ 2.5 variances per
+    // move: kept
+    const kept = new ChainRunner(options(3));
+    kept.run(kept.totalIterations);
+    expect(kept.result().auxiliaryOff).toBe(false);
+    expect(kept.result().auxiliaryAcceptRate!).toBeGreaterThan(0);
+    // correlation 0.9999: coordinate 0 given coordinate 1 has sd sqrt(1 - 0.9999^2) ~ 0.014 while
+    // its marginal sd is 1, so a move of coordinate 0 alone jumps about 0.44 x 0.034^2 ~ 5e-4
+    // variances per move (a 1-d random walk tuned to acceptance 0.44 has sd about 2.4 conditional
+    // sds; Gelman, Roberts and Gilks 1996, from memory): turned off after warm-up
+    const r = 0.9999;
+    const narrow = (x: Float64Array) => -(x[0]! * x[0]! - 2 * r * x[0]! * x[1]! + x[1]! * x[1]!) / (2 * (1 - r * r));
+    const narrowStep: AuxiliaryStep = (rng, state, logScale) => {
+      const position = new Float64Array(state.position);
+      position[0] = position[0]! + Math.exp(logScale) * rng.normal();
+      const lp1 = narrow(position);
+      const logAlpha = lp1 - state.logDensity;
+      const acceptProb = logAlpha >= 0 ? 1 : Math.exp(logAlpha);
+      const before = state.position[0]!;
+      if (Math.log(rng.uniform()) < logAlpha) return { state: { position, logDensity: lp1 }, acceptProb, before };
+      return { state: state as ChainState, acceptProb, before };
+    };
+    const cov = Float64Array.from([1, r, r, 1]);
+    const off = new ChainRunner({ ...options(4), logDensity: narrow, start: Float64Array.from([0.5, 0.5]), initialCov: cov, auxiliary: { step: narrowStep, every: 2 } });
+    off.run(off.totalIterations);
+    expect(off.result().auxiliaryOff).toBe(true);
+    expect(off.result().auxiliaryAcceptRate).toBeNaN(); // no move made while sampling
+    // the decision survives a snapshot taken after it
+    const first = new ChainRunner({ ...options(4), logDensity: narrow, start: Float64Array.from([0.5, 0.5]), initialCov: cov, auxiliary: { step: narrowStep, every: 2 } });
+    first.run(2500);
+    const snap = JSON.parse(JSON.stringify(first.snapshot())) as ChainSnapshot;
+    expect(snap.auxiliary!.off).toBe(true);
+    const resumed = ChainRunner.restore(snap, narrow, { step: narrowStep, every: 2 });
+    resumed.run(resumed.totalIterations);
+    expect(Array.from(resumed.result().draws)).toEqual(Array.from(off.result().draws));
+  });
 
   it('rejects a damaged auxiliary state', () => {
     const r = new ChainRunner(options(1));

@@ -16,7 +16,7 @@ import { readCases, checkPopulation } from '../io/cases.js';
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
-import { fitPosterior, fitDailyDraws, DEFAULT_SAMPLER, type SamplerOptions } from '../inference/fit.js';
+import { fitPosterior, fitDailyColumns, DEFAULT_SAMPLER, type SamplerOptions } from '../inference/fit.js';
 import type { PriorSet } from '../model/prior-set.js';
 import { summaryRows, type SummaryRow } from '../outputs/summary.js';
 import { identification, type Identification } from '../outputs/identification.js';
@@ -170,7 +170,7 @@ export async function runCompare(casesFile: string, o: CompareCliOptions, report
     const seconds = (performance.now() - t0) / 1000;
     fullSeconds += seconds;
     const chains = fit.chains.map((c) => c.draws);
-    const daily = fitDailyDraws(fit);
+    const daily = fitDailyColumns(fit);
     const check = checkFit(fit);
     const fitWarnings = fit.warnings.map((w) => `prior set ${p.label}, fit on every day: ${w}`);
     if (!check.converged) {

@@ -9,14 +9,13 @@ import { readCases, checkPopulation, type CaseData, type CaseSeries } from '../i
 import { dayOfWeek } from '../io/dates.js';
 import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
-import { fitPosterior, fitDailyDraws, prepareFit, DEFAULT_SAMPLER, type FitResult, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
+import { fitPosterior, fitDailyColumns, prepareFit, DEFAULT_SAMPLER, type FitResult, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
 import { createChainPool } from '../inference/worker-pool.js';
 import { modelFromInput } from '../inference/chain-job.js';
 import type { ChainSnapshot } from '../inference/chain.js';
 import { CHECKPOINT_FILE, readCheckpoint, removeCheckpoint, writeCheckpoint, type Checkpoint, type RunFingerprint } from '../io/checkpoint.js';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
-import { column } from '../outputs/draw-summary.js';
 import {
   summaryRows,
   summaryCsv,
@@ -274,8 +273,13 @@ export async function fitSeries(
       off += c.length;
     }
   }
-  const daily = fitDailyDraws(fit);
-  hooks.lastDayReproduction?.(column(daily.effective_reproduction, series.dates.length, series.dates.length - 1));
+  const daily = fitDailyColumns(fit);
+  {
+    const T = series.dates.length;
+    const r = daily.effective_reproduction;
+    // the last day's column: every draw's R_t on that day (in ascending order)
+    hooks.lastDayReproduction?.(r.slice(((T - 1) * r.length) / T));
+  }
   const rows = summaryRows(model.layout, chains, daily, series.dates, o.quantiles);
   const ident = identification(model, chains);
   const warnings = [...data.warnings, ...fit.warnings];

@@ -14,7 +14,7 @@ import { ChainRunner, type ChainResult, type ChainSnapshot } from './chain.js';
 import type { AdaptationSettings } from './adaptation.js';
 import type { PooledShape } from './pooled-adaptation.js';
 import { createWalkScaleMove } from './walk-scale-move.js';
-import { chainDailyDraws, type DailyDraws } from '../model/derived.js';
+import { chainDailyDraws, sortedColumns, type SortedDailyColumns } from '../model/derived.js';
 
 /**
  * Random-walk iterations between two walk-scale moves (walk-scale-move.ts). A move costs two
@@ -59,9 +59,9 @@ export interface ChainJob {
   /** stop at this iteration (a warm-up round's end) and return a snapshot instead of draws */
   stopAt?: number;
   /**
-   * compute the daily derived quantities of the draws as the chain ends (model/derived.ts
-   * chainDailyDraws: the same numbers as computing them later), so that work is spread over
-   * the threads too
+   * compute the daily derived quantities of the draws as the chain ends, as sorted columns
+   * (model/derived.ts chainDailyDraws and sortedColumns: the same numbers as computing them
+   * later), so that work is spread over the threads too
    */
   derived?: boolean;
 }
@@ -69,8 +69,8 @@ export interface ChainJob {
 /** A job's outcome: the chain's draws, or its snapshot when the job stopped early. */
 export interface ChainJobResult extends ChainResult {
   snapshot?: ChainSnapshot;
-  /** the daily derived quantities of the draws, when the job asked for them */
-  daily?: DailyDraws;
+  /** the daily derived quantities of the draws as sorted columns, when the job asked for them */
+  dailyColumns?: SortedDailyColumns;
 }
 
 export interface ChainJobEvents {
@@ -153,5 +153,5 @@ export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnap
     result.logDensity[k] = model.logDensity(theta);
   }
   if (job.derived !== true) return { ...result, draws };
-  return { ...result, draws, daily: chainDailyDraws(model, draws, job.model.firstWeekday, job.seed) };
+  return { ...result, draws, dailyColumns: sortedColumns(chainDailyDraws(model, draws, job.model.firstWeekday, job.seed), model.days) };
 }

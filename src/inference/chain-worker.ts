@@ -19,7 +19,7 @@ if (port !== null) {
         },
         req.snapshots,
       );
-      const buffers = [result.draws, result.logDensity, ...Object.values(result.daily ?? {})].map((a) => a.buffer as ArrayBuffer);
+      const buffers = [result.draws, result.logDensity, ...Object.values(result.dailyColumns ?? {})].map((a) => a.buffer as ArrayBuffer);
       port.postMessage({ type: 'result', chain: req.job.chain, result }, buffers);
     } catch (e) {
       const err = e as Error;

@@ -17,7 +17,7 @@ import { laplaceCovariance, dispersedStarts } from './laplace.js';
 import { createChainPool, type ChainPool } from './worker-pool.js';
 import type { EpidemicModel } from '../model/posterior.js';
 import { createSamplingSpace } from '../model/sampling-space.js';
-import { chainDailyDraws, concatDailyDraws, type DailyDraws } from '../model/derived.js';
+import { chainDailyDraws, mergeSortedColumns, sortedColumns, type SortedDailyColumns } from '../model/derived.js';
 
 export interface SamplerOptions {
   chains: number;
@@ -203,13 +203,17 @@ export async function fitPosterior(
 }
 
 /**
- * The daily derived quantities of every kept draw, chain after chain (model/derived.ts): those
- * the chains' threads computed (jobs run with `derived`), else computed here with the same
- * per-chain streams, so the numbers are the same either way (e.g. after resuming a checkpoint
- * written before `derived` was asked for).
+ * The daily derived quantities of every kept draw as sorted columns (model/derived.ts): merged
+ * from those the chains' threads computed (jobs run with `derived`), else computed here with the
+ * same per-chain streams, so the numbers are the same either way (e.g. after resuming a
+ * checkpoint written before `derived` was asked for).
  */
-export function fitDailyDraws(fit: FitResult): DailyDraws {
-  return concatDailyDraws(
-    fit.chains.map((c, i) => c.daily ?? chainDailyDraws(fit.model, c.draws, fit.jobs[i]!.model.firstWeekday, fit.jobs[i]!.seed)),
+export function fitDailyColumns(fit: FitResult): SortedDailyColumns {
+  const days = fit.model.days;
+  return mergeSortedColumns(
+    fit.chains.map(
+      (c, i) => c.dailyColumns ?? sortedColumns(chainDailyDraws(fit.model, c.draws, fit.jobs[i]!.model.firstWeekday, fit.jobs[i]!.seed), days),
+    ),
+    days,
   );
 }

@@ -119,17 +119,68 @@ export function chainDailyDraws(model: EpidemicModel, draws: Float64Array, first
   return dailyDraws(model, draws, firstWeekday, createRng(deriveSeed(chainSeed, PREDICTIVE_STREAM)));
 }
 
-/** The chains' daily draws one after another (rows of chain 0, then chain 1, ...). */
-export function concatDailyDraws(parts: readonly DailyDraws[]): DailyDraws {
+/**
+ * Per quantity, a days x draws matrix, day-major (day t's draws at t * n .. t * n + n - 1), each
+ * day's draws in ascending order, NaN last: what the summaries need (model/derived.ts
+ * {@link sortedColumns}, outputs/summary.ts), and small enough to pass between threads once.
+ */
+export type SortedDailyColumns = Record<DailyQuantity, Float64Array> & { readonly [sortedBrand]: true };
+/** A mark for the type checker only, so draw-ordered {@link DailyDraws} cannot pass for sorted columns. */
+declare const sortedBrand: unique symbol;
+
+/** Day-major sorted columns of daily draws over `days` days (a copy; the draws are left as they are). */
+export function sortedColumns(daily: DailyDraws, days: number): SortedDailyColumns {
   return Object.fromEntries(
     DAILY_QUANTITIES.map((q) => {
-      const out = new Float64Array(parts.reduce((a, p) => a + p[q].length, 0));
-      let off = 0;
-      for (const p of parts) {
-        out.set(p[q], off);
-        off += p[q].length;
+      const m = daily[q];
+      const n = m.length / days;
+      const out = new Float64Array(m.length);
+      for (let d = 0; d < n; d++) {
+        const row = d * days;
+        for (let t = 0; t < days; t++) out[t * n + d] = m[row + t];
+      }
+      for (let t = 0; t < days; t++) out.subarray(t * n, (t + 1) * n).sort();
+      return [q, out];
+    }),
+  ) as SortedDailyColumns;
+}
+
+/** a before b in ascending order with NaN last (the order of Float64Array.prototype.sort, -0 and 0 aside) */
+function before(a: number, b: number): boolean {
+  return a < b || (b !== b && a === a);
+}
+
+/**
+ * The sorted columns of several sets of draws over the same `days` days merged into the sorted
+ * columns of all of them (a merge per day, no sort).
+ */
+export function mergeSortedColumns(parts: readonly SortedDailyColumns[], days: number): SortedDailyColumns {
+  return Object.fromEntries(
+    DAILY_QUANTITIES.map((q) => {
+      const sizes = parts.map((p) => p[q].length / days);
+      const total = sizes.reduce((a, b) => a + b, 0);
+      const out = new Float64Array(total * days);
+      let run = new Float64Array(total);
+      let spare = new Float64Array(total);
+      for (let t = 0; t < days; t++) {
+        // fold the parts in one by one: run holds the merge of the first i parts
+        let len = 0;
+        for (let i = 0; i < parts.length; i++) {
+          const col = parts[i]![q].subarray(t * sizes[i]!, (t + 1) * sizes[i]!);
+          let a = 0;
+          let b = 0;
+          let k = 0;
+          while (a < len && b < col.length) spare[k++] = before(col[b]!, run[a]!) ? col[b++]! : run[a++]!;
+          while (a < len) spare[k++] = run[a++]!;
+          while (b < col.length) spare[k++] = col[b++]!;
+          len = k;
+          const swap = run;
+          run = spare;
+          spare = swap;
+        }
+        out.set(run.subarray(0, total), t * total);
       }
       return [q, out];
     }),
-  ) as DailyDraws;
+  ) as SortedDailyColumns;
 }

@@ -33,6 +33,18 @@ export function summarizeSample(values: Float64Array, levels: readonly number[])
   return { mean, sd, quantiles: levels.map((p) => quantileSorted(sorted, p)) };
 }
 
+/** As {@link summarizeSample}, for values already in ascending order (NaN last): no copy, no sort. */
+export function summarizeSorted(sorted: Float64Array, levels: readonly number[]): SampleSummary {
+  const n = sorted.length;
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += sorted[i];
+  mean /= n;
+  let ss = 0;
+  for (let i = 0; i < n; i++) ss += (sorted[i] - mean) ** 2;
+  const sd = n > 1 ? Math.sqrt(ss / (n - 1)) : NaN;
+  return { mean, sd, quantiles: levels.map((p) => quantileSorted(sorted, p)) };
+}
+
 /** Column name of a quantile level: 0.05 -> q05, 0.5 -> q50, 0.025 -> q2.5, 0.975 -> q97.5. */
 export function quantileColumn(p: number): string {
   const pct = Number((p * 100).toPrecision(10));

@@ -5,9 +5,9 @@
 import type { ParameterLayout } from '../model/layout.js';
 import { naturalValue } from '../model/layout.js';
 import { summarizeDiagnostics } from '../inference/diagnostics/index.js';
-import { DAILY_QUANTITIES, type DailyDraws } from '../model/derived.js';
+import { DAILY_QUANTITIES, type SortedDailyColumns } from '../model/derived.js';
 import { formatNumber, toCsv } from './format.js';
-import { quantileColumn, summarizeSample } from './stats.js';
+import { quantileColumn, summarizeSample, summarizeSorted } from './stats.js';
 
 export const DEFAULT_LEVELS = [0.05, 0.25, 0.5, 0.75, 0.95] as const;
 
@@ -33,7 +33,7 @@ export interface SummaryRow {
 export function summaryRows(
   layout: ParameterLayout,
   chains: Float64Array[],
-  daily: DailyDraws,
+  daily: SortedDailyColumns,
   dates: readonly string[],
   levels: readonly number[],
 ): SummaryRow[] {
@@ -42,12 +42,7 @@ export function summaryRows(
   for (const q of DAILY_QUANTITIES) {
     const m = daily[q];
     const n = m.length / T;
-    const col = new Float64Array(n);
-    for (let t = 0; t < T; t++) {
-      for (let d = 0; d < n; d++) col[d] = m[d * T + t];
-      const s = summarizeSample(col, levels);
-      rows.push({ quantity: q, date: dates[t], ...s });
-    }
+    for (let t = 0; t < T; t++) rows.push({ quantity: q, date: dates[t], ...summarizeSorted(m.subarray(t * n, (t + 1) * n), levels) });
   }
   for (let i = 0; i < layout.dim; i++) {
     const all = concat(parameterChains(layout, chains, i));

@@ -10,7 +10,7 @@ import { readSimScenario } from '../../src/io/sim-scenario.js';
 import { simulatePlace } from '../../src/model/simulate.js';
 import { loadPriorSet } from '../../src/io/priors.js';
 import { fitPosterior, DEFAULT_SAMPLER, type FitResult } from '../../src/inference/fit.js';
-import { dailyDraws } from '../../src/model/derived.js';
+import { dailyDraws, sortedColumns } from '../../src/model/derived.js';
 import { diagnosticRows, isConverged, summaryRows, CONVERGENCE, type SummaryRow } from '../../src/outputs/summary.js';
 import { identification, type Identification } from '../../src/outputs/identification.js';
 import { createRng, deriveSeed } from '../../src/util/rng.js';
@@ -37,7 +37,7 @@ describe('fitPosterior on a simulated epidemic with known truth', () => {
       all.set(c, off);
       off += c.length;
     }
-    const daily = dailyDraws(fit.model, all, input.firstWeekday, createRng(deriveSeed(11, 1)));
+    const daily = sortedColumns(dailyDraws(fit.model, all, input.firstWeekday, createRng(deriveSeed(11, 1))), sim.dates.length);
     rows = summaryRows(fit.model.layout, chains, daily, sim.dates, [0.05, 0.5, 0.95]);
     ident = identification(fit.model, chains);
   }, 600_000);

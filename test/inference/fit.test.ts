@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { fileURLToPath } from 'node:url';
 import { loadPriorSet } from '../../src/io/priors.js';
-import { fitPosterior, fitDailyDraws, DEFAULT_SAMPLER, type SamplerOptions } from '../../src/inference/fit.js';
+import { fitPosterior, fitDailyColumns, DEFAULT_SAMPLER, type SamplerOptions } from '../../src/inference/fit.js';
 import { DAILY_QUANTITIES, chainDailyDraws } from '../../src/model/derived.js';
 import type { ChainSnapshot } from '../../src/inference/chain.js';
 import { roundEnds } from '../../src/inference/pooled-adaptation.js';
@@ -37,19 +37,25 @@ describe('fitPosterior with pooled warm-up rounds', () => {
   it('gives the same daily derived quantities computed in the workers or afterwards in this thread', async () => {
     const a = await fitPosterior(input, { ...options, threads: 2, derived: true });
     const b = await fitPosterior(input, { ...options, threads: 0 });
-    expect(a.chains.every((c) => c.daily !== undefined)).toBe(true);
-    expect(b.chains.every((c) => c.daily === undefined)).toBe(true);
-    const da = fitDailyDraws(a);
-    const db = fitDailyDraws(b);
+    expect(a.chains.every((c) => c.dailyColumns !== undefined)).toBe(true);
+    expect(b.chains.every((c) => c.dailyColumns === undefined)).toBe(true);
+    const da = fitDailyColumns(a);
+    const db = fitDailyColumns(b);
     const T = counts.length;
+    const n = 3 * 60;
     for (const q of DAILY_QUANTITIES) {
-      expect(da[q].length).toBe(3 * 60 * T);
+      expect(da[q].length).toBe(n * T);
       expect(Array.from(da[q])).toEqual(Array.from(db[q]));
     }
-    // chain 1's rows are chain 1's own: its first draw's R_t from its own parameter vector
-    const firstOfChain1 = a.chains[1]!.draws.subarray(0, a.model.layout.dim);
-    const one = chainDailyDraws(a.model, firstOfChain1, input.firstWeekday, a.jobs[1]!.seed);
-    expect(Array.from(da.effective_reproduction.subarray(60 * T, 60 * T + T))).toEqual(Array.from(one.effective_reproduction));
+    // each day's column holds every draw's value on that day, in ascending order: the same
+    // multiset as computing each chain's draws directly (chainDailyDraws, its own stream)
+    const direct = a.chains.map((c, i) => chainDailyDraws(a.model, c.draws, input.firstWeekday, a.jobs[i]!.seed));
+    for (const t of [0, 13, T - 1]) {
+      for (const q of ['effective_reproduction', 'predicted_reports'] as const) {
+        const expected = direct.flatMap((d) => Array.from({ length: 60 }, (_, k) => d[q][k * T + t]!)).sort((x, y) => x - y);
+        expect(Array.from(da[q].subarray(t * n, (t + 1) * n))).toEqual(expected);
+      }
+    }
   }, 60_000);
 
   it('gives the same draws when resumed from the latest snapshots at any moment', async () => {

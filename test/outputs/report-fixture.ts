@@ -13,7 +13,7 @@ import { resolvePriorSet } from '../../src/io/priors.js';
 import { addDays } from '../../src/io/dates.js';
 import { createModel } from '../../src/model/posterior.js';
 import { toUnconstrained } from '../../src/model/layout.js';
-import { dailyDraws } from '../../src/model/derived.js';
+import { dailyDraws, sortedColumns } from '../../src/model/derived.js';
 import { summaryRows, summaryCsv, diagnosticRows, diagnosticsCsv, drawsCsv, isConverged, DEFAULT_LEVELS } from '../../src/outputs/summary.js';
 import { identification } from '../../src/outputs/identification.js';
 import { formatNumber, toCsv } from '../../src/outputs/format.js';
@@ -80,7 +80,7 @@ export function writeFixtureRun(dir: string, o: FixtureOptions = {}): string {
   const all = new Float64Array(chainsN * perChain * L.dim);
   chains.forEach((c, i) => all.set(c, i * c.length));
   const dates = Array.from({ length: days }, (_, t) => addDays(FIRST_DATE, t));
-  const daily = dailyDraws(model, all, 0, createRng(7));
+  const daily = sortedColumns(dailyDraws(model, all, 0, createRng(7)), days);
   const rows = summaryRows(L, chains, daily, dates, levels);
   const diagnostics = diagnosticRows(L, chains);
   writeFileSync(join(dir, 'summary.csv'), summaryCsv(rows, levels));

@@ -7,12 +7,13 @@
 //   npm run bench                      full run (a few minutes)
 //   npm run bench -- --quick           smoke run in seconds: short runs, one round, timing
 //                                      targets shown but not judged
-//   npm run bench -- --only density,scaling,sampler,demo   some parts only
+//   npm run bench -- --only density,scaling,sampler,demo,regions   some parts only
 //   npm run bench -- --out FILE        save the JSON there instead of bench-results/
 //
 // Parts (scripts/bench/): density.mjs (log density against the plain-C program), scaling.mjs
 // (cost against days and knot spacing), sampler.mjs (iterations per second, ESS per second of
-// a full fit), demo-fit.mjs (the demo fit end to end, 1 and 2 threads, peak memory). Every
+// a full fit), demo-fit.mjs (the demo fit end to end, 1 and 2 threads, peak memory),
+// regions.mjs (four places in one run, 1 and 2 threads: throughput over many places). Every
 // timed measurement runs in a fresh Node process; rates are best-of-N in CPU time where one
 // thread does the work, wall time where the user waits (fits), because the machine is shared.
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
@@ -21,6 +22,7 @@ import { compileReference } from './bench/c-reference.mjs';
 import { measureDemoFit } from './bench/demo-fit.mjs';
 import { measureDensity } from './bench/density.mjs';
 import { ROOT, fmt, loadAverage, machineInfo, option, sourceInfo, staleDist, table } from './bench/lib.mjs';
+import { measureRegions } from './bench/regions.mjs';
 import { measureSampler } from './bench/sampler.mjs';
 import { LINEAR_TOLERANCE, measureScaling } from './bench/scaling.mjs';
 
@@ -29,6 +31,7 @@ const PARTS = {
   scaling: measureScaling,
   sampler: measureSampler,
   demo: measureDemoFit,
+  regions: measureRegions,
 };
 
 /** The targets of the performance issue (the demo fit, the density, linear cost, threads). */
@@ -42,7 +45,7 @@ const TARGETS = {
 };
 
 function usage() {
-  return 'usage: node scripts/bench.js [--quick] [--only density,scaling,sampler,demo] [--out FILE]';
+  return 'usage: node scripts/bench.js [--quick] [--only density,scaling,sampler,demo,regions] [--out FILE]';
 }
 
 function parseArgs(argv) {
@@ -65,7 +68,9 @@ function targetRows(results, quick, failedParts) {
     broken('demo fit converged', `R-hat <= ${TARGETS.maxRhat}, bulk and tail ESS >= ${TARGETS.minEss}`);
     broken('demo fit wall time (2 threads)', `<= ${TARGETS.demoWallSeconds} s, converged`);
     broken('2 threads vs 1 (demo fit)', `>= ${TARGETS.twoThreadSpeedup}x throughput`);
+    broken('2 threads vs 1 (demo fit, sampling phase)', `>= ${TARGETS.twoThreadSpeedup}x throughput`);
   }
+  if (failedParts.has('regions')) broken('2 threads vs 1 (four places in one run)', `>= ${TARGETS.twoThreadSpeedup}x throughput`);
   if (failedParts.has('density')) broken('log density, 90 to 365 days', `<= ${TARGETS.densityTimeRatioToC}x C time`);
   if (failedParts.has('scaling')) broken('cost linear in days (90..720)', `<= ${100 * TARGETS.linearMaxRelDeviation}% off a fitted line`);
   // --quick runs are short and single: timing targets are shown, not judged
@@ -91,8 +96,14 @@ function targetRows(results, quick, failedParts) {
     add(
       '2 threads vs 1 (demo fit)',
       `>= ${TARGETS.twoThreadSpeedup}x throughput`,
-      s === null ? failed : `${fmt(s.wall)}x end to end (sampling ${fmt(s.sampling)}x; 2-thread run used ${fmt(f?.cpuPerWall, 2)} CPU s per wall s)`,
+      s === null ? failed : `${fmt(s.wall)}x end to end (2-thread run used ${fmt(f?.cpuPerWall, 2)} CPU s per wall s)`,
       s === null ? false : judge(s.wall >= TARGETS.twoThreadSpeedup),
+    );
+    add(
+      '2 threads vs 1 (demo fit, sampling phase)',
+      `>= ${TARGETS.twoThreadSpeedup}x throughput`,
+      s === null || s.sampling === null ? failed : `${fmt(s.sampling)}x iterations per second`,
+      s === null || s.sampling === null ? false : judge(s.sampling >= TARGETS.twoThreadSpeedup),
     );
     add(
       'same results, 1 or 2 threads',
@@ -100,6 +111,16 @@ function targetRows(results, quick, failedParts) {
       demo.identicalAcrossThreads === null ? failed : demo.identicalAcrossThreads ? 'identical' : 'different',
       demo.identicalAcrossThreads === true,
     );
+  }
+  const regions = results.regions;
+  if (regions !== undefined) {
+    add(
+      '2 threads vs 1 (four places in one run)',
+      `>= ${TARGETS.twoThreadSpeedup}x throughput`,
+      `${fmt(regions.speedup)}x regions per minute (${fmt(regions.threads2.regionsPerMinute)} vs ${fmt(regions.threads1.regionsPerMinute)})`,
+      judge(regions.speedup >= TARGETS.twoThreadSpeedup),
+    );
+    add('same results, 1 or 2 threads (four places)', 'identical regions.csv', regions.identicalAcrossThreads ? 'identical' : 'different', regions.identicalAcrossThreads);
   }
   const density = results.density;
   if (density !== undefined) {

@@ -1,0 +1,72 @@
+// Throughput over many places, the daily job of a surveillance team: the four districts of
+// data-demo/districts fitted in one run (`waxwane fit data-demo/districts/cases.csv
+// --populations ...`, the default sampler), with --threads 2 and --threads 1. With two threads
+// and several regions, two regions are fitted at once, each with its chains in its own thread
+// (cli/fit-regions.ts), so everything a fit does, its summaries and report included, runs in
+// parallel. Figures: wall time, regions per minute, the ratio of the two, and whether the
+// combined table (regions.csv) is the same bytes for both thread counts.
+import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { CLI, ROOT, fmt, loadAverage, readCsvRows, table, wallSeconds } from './lib.mjs';
+
+const CASES = 'data-demo/districts/cases.csv';
+
+/** region,population of the districts, from the scenario that made them. */
+function populationsCsv() {
+  const scenario = JSON.parse(readFileSync(join(ROOT, 'data-demo', 'scenarios', 'districts.json'), 'utf8'));
+  const field = (s) => (/[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+  return `region,population\n${scenario.places.map((p) => `${field(p.name)},${p.population}`).join('\n')}\n`;
+}
+
+function timedRun(extra, threads) {
+  const tmp = mkdtempSync(join(tmpdir(), 'waxwane-bench-regions-'));
+  try {
+    const populations = join(tmp, 'populations.csv');
+    writeFileSync(populations, populationsCsv());
+    const out = join(tmp, 'out');
+    const args = ['fit', CASES, '--populations', populations, '--seed', '7', ...extra, '--out', out, '--quiet', '--force', '--threads', String(threads)];
+    const load = loadAverage()[0];
+    const t0 = wallSeconds();
+    const r = spawnSync(process.execPath, [CLI, ...args], { cwd: ROOT, encoding: 'utf8' });
+    const wall = wallSeconds() - t0;
+    if (r.status !== 0) throw new Error(`waxwane ${args.join(' ')} failed (exit ${r.status}): ${(r.stderr ?? '').trim()}`);
+    const regions = readCsvRows(join(out, 'regions.csv'));
+    return {
+      threads,
+      wallSeconds: wall,
+      regions: regions.length,
+      regionsPerMinute: (60 * regions.length) / wall,
+      loadAverageAtStart: load,
+      hash: createHash('sha256').update(readFileSync(join(out, 'regions.csv'))).digest('hex'),
+    };
+  } finally {
+    rmSync(tmp, { recursive: true, force: true });
+  }
+}
+
+export async function measureRegions(ctx) {
+  // --quick: a short run, a smoke test of the path
+  const extra = ctx.quick ? ['--warmup', '500', '--draws', '100', '--thin', '2'] : [];
+  const runs = {};
+  for (const threads of [2, 1]) {
+    ctx.progress(`four districts: --threads ${threads}`);
+    runs[threads] = timedRun(extra, threads);
+  }
+  const two = runs[2];
+  const one = runs[1];
+  const speedup = one.wallSeconds / two.wallSeconds;
+  const identical = one.hash === two.hash;
+  const command = ['waxwane', 'fit', CASES, '--populations', 'P.csv', '--seed', '7', ...extra, '--out', 'TMP', '--quiet', '--threads', 'N'].join(' ');
+  ctx.print(`Many places at once (${command}; one run per thread count)`);
+  ctx.print(
+    table(
+      ['threads', 'regions', 'wall s', 'regions per minute'],
+      [two, one].map((f) => [f.threads, f.regions, fmt(f.wallSeconds), fmt(f.regionsPerMinute)]),
+    ),
+  );
+  ctx.print(`2 threads vs 1: ${fmt(speedup)}x regions per minute; regions.csv identical across thread counts: ${identical ? 'yes' : 'NO'}`);
+  return { command, threads2: two, threads1: one, speedup, identicalAcrossThreads: identical };
+}

@@ -23,7 +23,9 @@ import { chainDailyDraws, sortedColumns, type SortedDailyColumns } from '../mode
  * the lowest bulk ESS of 35-day fits (median 115 -> 250) and took the share of true walk scales
  * in the lowest calibration rank bin from 13.5% to 7.5% (10% expected), at +50% sampling time on
  * the 182-day demo (with the five-simulation move), whose ESS it did not change; every 8 keeps
- * the move's share of the sampling time near 15%.
+ * the move's share of the sampling time near 15%, and where warm-up finds the move carrying the
+ * walk scale too little to pay for itself (long series, chain.ts AUX_MIN_JUMP) the chain stops
+ * making it for the sampling phase.
  */
 export const WALK_SCALE_MOVE_EVERY = 8;
 

@@ -408,7 +408,7 @@ function auxiliaryStep(c: Core, warming: boolean): void {
     c.aux.logScale += (acceptProb - AUX_TARGET) / Math.pow(c.aux.tuned, 0.6);
     if (accepted) c.aux.acceptedWarmup += 1;
     // the second half of warm-up: how far the move carries its coordinate, for the decision
-    // at the end of warm-up (auxiliaryVerdict)
+    // at the end of warm-up (auxiliaryJump)
     if (2 * c.iteration > c.warmup && before === before) {
       const a = c.aux;
       const n = (a.statCount ?? 0) + 1;

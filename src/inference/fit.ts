@@ -104,7 +104,7 @@ export function prepareFit(input: ModelInput, options: SamplerOptions): Prepared
     starts,
     model.layout.walkScale,
     { maxIterations: 2000, functionTolerance: 1e-9 },
-    { maxIterations: 2000, functionTolerance: 1e-6 },
+    { maxIterations: 2000, functionTolerance: 1e-6, differences: 'forward' },
   );
   if (!Number.isFinite(mode.logDensity)) {
     throw new WaxwaneError('no parameter vector with a finite posterior density was found; check the data and the population');

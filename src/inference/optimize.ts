@@ -23,8 +23,14 @@ export interface OptimizeOptions {
   functionTolerance?: number;
   /** L-BFGS memory, in correction pairs (default 10) */
   memory?: number;
-  /** finite-difference step h_i = relativeStep * max(1, |x_i|) (default 1e-5) */
+  /** finite-difference step h_i = relativeStep * max(1, |x_i|) (default 1e-5; 1e-7 for forward differences) */
   relativeStep?: number;
+  /**
+   * 'central' (default) or 'forward' differences: forward costs one evaluation per coordinate
+   * instead of two, with an error O(h) + O(eps |f| / h), about 1e-8 relative at h = 1e-7
+   * against about 1e-10 for central; enough to head for the mode, not to pin it down
+   */
+  differences?: 'central' | 'forward';
 }
 
 /**
@@ -118,7 +124,8 @@ export function maximizeLogDensity(logDensity: LogDensity, start: Float64Array, 
   if (!Number.isFinite(fx)) return finish('infeasible-start', 0);
 
   let g = new Float64Array(n);
-  if (!finiteDifferenceGradient(f, x, fx, g, o.relativeStep)) return finish('non-finite-gradient', 0);
+  const gradient = o.differences === 'forward' ? forwardDifferenceGradient : finiteDifferenceGradient;
+  if (!gradient(f, x, fx, g, o.relativeStep)) return finish('non-finite-gradient', 0);
   const memS: Float64Array[] = [];
   const memY: Float64Array[] = [];
   const memRho: number[] = [];
@@ -158,7 +165,7 @@ export function maximizeLogDensity(logDensity: LogDensity, start: Float64Array, 
     if (step < 0) return finish('line-search', iter);
 
     const gNew = new Float64Array(n);
-    const gradientOk = finiteDifferenceGradient(f, xNew, fNew, gNew, o.relativeStep);
+    const gradientOk = gradient(f, xNew, fNew, gNew, o.relativeStep);
     const s = new Float64Array(n);
     const y = new Float64Array(n);
     for (let i = 0; i < n; i++) {
@@ -225,6 +232,43 @@ export function finiteDifferenceGradient(
   return ok;
 }
 
+/**
+ * Forward-difference gradient of `f` at `x` into `out` (`fx` = f(x)), as
+ * {@link finiteDifferenceGradient} but one evaluation per coordinate; where the forward side is
+ * not finite the backward one is used. Returns false if a component has neither.
+ *
+ * @remarks f'(x) ~ (f(x + h) - f(x)) / h, error O(h) + O(eps |f| / h), balanced near
+ *   h ~ eps^(1/2) ~ 1e-8 (Nocedal and Wright 2006, section 8.1).
+ */
+export function forwardDifferenceGradient(
+  f: (x: Float64Array) => number,
+  x: Float64Array,
+  fx: number,
+  out: Float64Array,
+  relativeStep = 1e-7,
+): boolean {
+  let ok = true;
+  for (let i = 0; i < x.length; i++) {
+    const xi = x[i]!;
+    x[i] = xi + relativeStep * Math.max(1, Math.abs(xi));
+    const h = x[i]! - xi;
+    const fPlus = f(x);
+    if (Number.isFinite(fPlus)) {
+      out[i] = (fPlus - fx) / h;
+    } else {
+      x[i] = xi - h;
+      const fMinus = f(x);
+      if (Number.isFinite(fMinus)) out[i] = (fx - fMinus) / h;
+      else {
+        out[i] = NaN;
+        ok = false;
+      }
+    }
+    x[i] = xi;
+  }
+  return ok;
+}
+
 /** L-BFGS two-loop recursion: d = -H g; returns g'd. */
 function direction(
   g: Float64Array,
@@ -275,10 +319,12 @@ function resolveOptions(options: OptimizeOptions): Required<OptimizeOptions> {
     gradientTolerance: options.gradientTolerance ?? 1e-6,
     functionTolerance: options.functionTolerance ?? 1e-15,
     memory: options.memory ?? 10,
-    relativeStep: options.relativeStep ?? 1e-5,
+    relativeStep: options.relativeStep ?? (options.differences === 'forward' ? 1e-7 : 1e-5),
+    differences: options.differences ?? 'central',
   };
   if (!Number.isInteger(o.maxIterations) || o.maxIterations < 1) throw new WaxwaneError(`maxIterations must be a positive integer, got ${o.maxIterations}`);
   if (!Number.isInteger(o.memory) || o.memory < 1) throw new WaxwaneError(`memory must be a positive integer, got ${o.memory}`);
+  if (o.differences !== 'central' && o.differences !== 'forward') throw new WaxwaneError(`differences must be 'central' or 'forward', got ${String(o.differences)}`);
   for (const k of ['gradientTolerance', 'functionTolerance', 'relativeStep'] as const) {
     if (!(o[k] > 0) || !Number.isFinite(o[k])) throw new WaxwaneError(`${k} must be positive, got ${o[k]}`);
   }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { finiteDifferenceGradient, findMode, maximizeLogDensity } from '../../src/inference/optimize.js';
+import { finiteDifferenceGradient, findMode, forwardDifferenceGradient, maximizeLogDensity } from '../../src/inference/optimize.js';
 import type { LogDensity } from '../../src/inference/types.js';
 import { WaxwaneError } from '../../src/errors.js';
 import { ar1Covariance, gaussianTarget } from './harness.js';
@@ -141,5 +141,38 @@ describe('finiteDifferenceGradient', () => {
     expect(Math.abs(g[0]! - 2)).toBeLessThan(1e-4); // forward difference: error h = 1e-5
     expect(finiteDifferenceGradient(() => Infinity, x, 1, g)).toBe(false);
     expect(Number.isNaN(g[0]!)).toBe(true);
+  });
+});
+
+describe('forwardDifferenceGradient', () => {
+  it('matches the analytic gradient of sum (i + 1) x_i^3 within the forward-difference error bound', () => {
+    // |error| <= h |f''| / 2 (truncation, plus h^2 |f'''| / 6) + 2 eps |f| / h (rounding of two
+    // values of f), Nocedal and Wright 2006, section 8.1; h = 1e-7 max(1, |x_i|)
+    const f = (x: Float64Array) => x.reduce((s, v, i) => s + (i + 1) * v ** 3, 0);
+    const x = Float64Array.from([0.5, -2, 3, 10]);
+    const g = new Float64Array(4);
+    const fx = f(x);
+    expect(forwardDifferenceGradient(f, x, fx, g)).toBe(true);
+    x.forEach((v, i) => {
+      const h = 1e-7 * Math.max(1, Math.abs(v));
+      const bound = (h * 6 * (i + 1) * Math.abs(v)) / 2 + h * h * (i + 1) + (2 * Number.EPSILON * Math.abs(fx)) / h;
+      expect(Math.abs(g[i]! - 3 * (i + 1) * v * v)).toBeLessThan(bound);
+    });
+    expect(Array.from(x)).toEqual([0.5, -2, 3, 10]);
+  });
+
+  it('takes the backward side where the forward one is outside the support', () => {
+    const f = (x: Float64Array) => (x[0]! <= 1 ? x[0]! * x[0]! : Infinity);
+    const x = Float64Array.from([1]);
+    const g = new Float64Array(1);
+    expect(forwardDifferenceGradient(f, x, f(x), g)).toBe(true);
+    expect(Math.abs(g[0]! - 2)).toBeLessThan(1e-6);
+    expect(forwardDifferenceGradient(() => Infinity, x, 1, g)).toBe(false);
+  });
+
+  it('takes L-BFGS to the Rosenbrock minimum (1, 1) with forward differences too', () => {
+    const r = maximizeLogDensity(rosenbrock, rosenbrockStart(2), { differences: 'forward' });
+    for (const v of r.position) expect(Math.abs(v - 1)).toBeLessThan(1e-3);
+    expect(() => maximizeLogDensity(rosenbrock, rosenbrockStart(2), { differences: 'sideways' as never })).toThrow(WaxwaneError);
   });
 });

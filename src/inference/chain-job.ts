@@ -6,14 +6,14 @@
  * warm-up round's end and hand back its snapshot, to be continued with a pooled proposal shape
  * (fit.ts, pooled-adaptation.ts).
  */
-import { createModel, type ModelData } from '../model/posterior.js';
-import { createSamplingSpace } from '../model/sampling-space.js';
+import { createModel, type EpidemicModel, type ModelData } from '../model/posterior.js';
+import { createSamplingSpace, type SamplingSpace } from '../model/sampling-space.js';
 import type { PriorSet } from '../model/prior-set.js';
 import { createRng, deriveSeed } from '../util/rng.js';
 import { ChainRunner, type ChainResult, type ChainSnapshot } from './chain.js';
 import type { AdaptationSettings } from './adaptation.js';
 import type { PooledShape } from './pooled-adaptation.js';
-import { createWalkScaleMove } from './walk-scale-move.js';
+import { createWalkScaleMove, type AuxiliaryStep } from './walk-scale-move.js';
 import { chainDailyDraws, sortedColumns, type SortedDailyColumns } from '../model/derived.js';
 
 /**
@@ -89,6 +89,26 @@ export function modelFromInput(input: ModelInput) {
   return createModel(data, input.priorSet);
 }
 
+/** The model, sampling space and walk-scale move of the last job's input, kept for the next. */
+let lastJobModel: { key: string; model: EpidemicModel; space: SamplingSpace; step: AuxiliaryStep | null } | null = null;
+
+/**
+ * The model, sampling space and walk-scale move of a job's input, reused from the previous job
+ * when the input is the same (the chains of one fit, and its warm-up rounds): the functions
+ * the compiler has already optimised are kept, where fresh ones would warm up again in every
+ * round. They hold only scratch buffers that each evaluation overwrites, and jobs in one thread
+ * run one at a time, so reusing them changes no result.
+ */
+function jobModel(input: ModelInput): { model: EpidemicModel; space: SamplingSpace; step: AuxiliaryStep | null } {
+  const key = JSON.stringify(input);
+  if (lastJobModel === null || lastJobModel.key !== key) {
+    const model = modelFromInput(input);
+    const space = createSamplingSpace(model);
+    lastJobModel = { key, model, space, step: createWalkScaleMove(space) };
+  }
+  return lastJobModel;
+}
+
 /** Shortest time between two snapshots of a chain sent for checkpoints. */
 export const SNAPSHOT_INTERVAL_MS = 2000;
 
@@ -97,9 +117,7 @@ export const SNAPSHOT_INTERVAL_MS = 2000;
  * mapped back to the model's parameter vector, each with the model's log density.
  */
 export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnapshots = false): ChainJobResult {
-  const model = modelFromInput(job.model);
-  const space = createSamplingSpace(model);
-  const step = createWalkScaleMove(space);
+  const { model, space, step } = jobModel(job.model);
   const auxiliary = step !== null ? { step, every: WALK_SCALE_MOVE_EVERY } : undefined;
   const runner = job.snapshot
     ? ChainRunner.restore(job.snapshot, space.logDensity, auxiliary)

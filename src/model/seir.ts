@@ -7,8 +7,9 @@
  * needed. Alongside the state the integrator accumulates two flows per day, exactly as RK4
  * weights them: infections (S -> E_1) and onsets (E_m -> I_1).
  *
- * The default stage counts (m = n = 2) with onsets only, the log density's case, run in
- * {@link runOnsets22}: the state in local variables, several times faster, same results.
+ * The default stage counts (m = n = 2) run in {@link runOnsets22}: the state in local
+ * variables, several times faster, same results (the log density's onsets, and the
+ * trajectories' infections and susceptibles too).
  */
 
 export interface SeirIntegrator {
@@ -43,11 +44,18 @@ export interface SeirIntegrator {
   readonly state: Float64Array;
 }
 
+/**
+ * An integrator for m = `latentStages`, n = `infectiousStages` and `substeps` RK4 steps a day.
+ * `generic: true` keeps m = n = 2 on the general code as well (the cross-check of the fast
+ * path in the tests); the results are the same.
+ */
 export function createSeirIntegrator(
   latentStages: number,
   infectiousStages: number,
   substeps: number,
+  options: { generic?: boolean } = {},
 ): SeirIntegrator {
+  const fastPath = latentStages === 2 && infectiousStages === 2 && options.generic !== true;
   const m = latentStages;
   const n = infectiousStages;
   const size = 1 + m + n;
@@ -99,10 +107,10 @@ export function createSeirIntegrator(
     run(betaOverN, start, days, latentDays, infectiousDays, infections, onsets, susceptibleStart) {
       const a = m / latentDays;
       const g = n / infectiousDays;
-      if (m === 2 && n === 2 && infections === null && susceptibleStart === null) {
+      if (fastPath) {
         rates[0] = a;
         rates[1] = g;
-        return runOnsets22(x, rates, substeps, betaOverN, start, days, onsets, start);
+        return runOnsets22(x, rates, substeps, betaOverN, start, days, onsets, start, infections, susceptibleStart);
       }
       for (let s = start; s < start + days; s++) {
         const b = betaOverN[s];
@@ -160,13 +168,15 @@ export function createSeirIntegrator(
 }
 
 /**
- * The m = n = 2 case of {@link SeirIntegrator.run} when only onsets are wanted (the log
- * density's case), with the state in local variables.
+ * The m = n = 2 case of {@link SeirIntegrator.run}, with the state in local variables: the
+ * log density's case (onsets only) and the trajectories' (daily infections and the
+ * susceptibles at the start of each day too, when those arrays are given).
  *
  * `x` holds [S, E_1, E_2, I_1, I_2] on entry and the state after the last day on exit;
  * `rates` holds [m/L, n/D] (in an array, not as arguments: a double passed to a function the
  * optimising compiler does not inline has to be boxed on the heap). `betaOverN` is read from
- * index `start`, the daily onsets are written from index `onsetsStart`.
+ * index `start`, the daily onsets (and infections, susceptibles) are written from index
+ * `onsetsStart`.
  * Returns false as soon as a state or a daily onset or infection count turns negative or
  * non-finite, exactly when the generic integrator does (the state left in `x` is then that of
  * the failing day); never throws.
@@ -196,6 +206,8 @@ export function runOnsets22(
   days: number,
   onsets: Float64Array,
   onsetsStart: number,
+  infections: Float64Array | null = null,
+  susceptible: Float64Array | null = null,
 ): boolean {
   const h = 1 / substeps;
   const hh = h / 2;
@@ -210,6 +222,7 @@ export function runOnsets22(
   let ok = true;
   for (let d = 0; d < days; d++) {
     const hb = hh * betaOverN[start + d];
+    if (susceptible !== null) susceptible[onsetsStart + d] = S;
     let o = 0; // the day's sums of weighted onset and infection flows (scaled like them)
     let inf = 0;
     for (let q = 0; q < substeps; q++) {
@@ -294,6 +307,7 @@ export function runOnsets22(
     }
     o *= third;
     onsets[onsetsStart + d] = o;
+    if (infections !== null) infections[onsetsStart + d] = inf * third;
     // negative daily infections (S growing) make the vector impossible, as in the generic path
     const valid = S >= 0 && E1 >= 0 && E2 >= 0 && I1 >= 0 && I2 >= 0 && o >= 0 && inf >= 0;
     if (!(valid && S + E1 + E2 + I1 + I2 < Infinity)) {

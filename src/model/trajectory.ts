@@ -36,6 +36,17 @@ export interface Trajectory {
   readonly ok: boolean;
 }
 
+/** The integrator of the last settings seen, reused: a fresh one per trajectory never gets fast. */
+let lastIntegrator: { key: string; seir: ReturnType<typeof createSeirIntegrator> } | null = null;
+
+function integratorFor(settings: ModelSettings): ReturnType<typeof createSeirIntegrator> {
+  const key = `${settings.latent_stages}/${settings.infectious_stages}/${settings.substeps}`;
+  if (lastIntegrator === null || lastIntegrator.key !== key) {
+    lastIntegrator = { key, seir: createSeirIntegrator(settings.latent_stages, settings.infectious_stages, settings.substeps) };
+  }
+  return lastIntegrator.seir;
+}
+
 /**
  * Runs the SEIR model over `beta.length` simulated days (seed days included) and the
  * observation model over the days from the first observed day on.
@@ -57,7 +68,7 @@ export function runTrajectory(
   const susceptible = new Float64Array(simDays);
   const infections = new Float64Array(simDays);
   const onsets = new Float64Array(simDays);
-  const seir = createSeirIntegrator(settings.latent_stages, settings.infectious_stages, settings.substeps);
+  const seir = integratorFor(settings);
   const ok =
     seir.seed(N, params.seedInfected, params.latentDays, params.infectiousDays) &&
     seir.run(betaOverN, 0, simDays, params.latentDays, params.infectiousDays, infections, onsets, susceptible);

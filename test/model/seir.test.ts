@@ -255,49 +255,60 @@ describe('createSeirIntegrator', () => {
     for (let d = 1; d < days; d++) expect(S[d]).toBeCloseTo(S[d - 1] - whole.infections[d - 1], 6);
   });
 
-  it('gives the same onsets on the m = n = 2 onsets-only fast path as on the generic path', () => {
-    // run() takes a separate code path for m = n = 2 when only onsets are asked for. seir.ts
-    // promises the same bits when h/2 is a power of two (substeps 1, 2, 4, 8) and agreement to
-    // rounding otherwise (we ask 1e-12 relative; 3 and 7 sub-steps)
+  it('gives the same onsets, infections and susceptibles on the m = n = 2 fast path as on the generic path', () => {
+    // run() takes a separate code path for m = n = 2. seir.ts promises the same bits when h/2
+    // is a power of two (substeps 1, 2, 4, 8) and agreement to rounding otherwise (we ask
+    // 1e-12 relative; 3 and 7 sub-steps)
     const days = 200;
     const betaOverN = new Float64Array(days);
     for (let d = 0; d < days; d++) betaOverN[d] = (0.45 + 0.2 * Math.cos(d / 11)) / 2e6;
     for (const substeps of [1, 2, 3, 4, 7, 8]) {
-      const fast = createSeirIntegrator(2, 2, substeps);
-      const slow = createSeirIntegrator(2, 2, substeps);
-      fast.seed(2e6, 30, 2.7, 5.5);
-      slow.seed(2e6, 30, 2.7, 5.5);
-      const onFast = new Float64Array(days);
-      const onSlow = new Float64Array(days);
-      // in two pieces, to cover resuming and a non-zero start
-      expect(fast.run(betaOverN, 0, 120, 2.7, 5.5, null, onFast, null)).toBe(true);
-      expect(fast.run(betaOverN, 120, 80, 2.7, 5.5, null, onFast, null)).toBe(true);
-      expect(slow.run(betaOverN, 0, days, 2.7, 5.5, new Float64Array(days), onSlow, null)).toBe(true);
-      if ((substeps & (substeps - 1)) === 0) {
-        expect(Array.from(onFast)).toEqual(Array.from(onSlow));
-        expect(Array.from(fast.state)).toEqual(Array.from(slow.state));
-      } else {
-        for (let d = 0; d < days; d++) expect(Math.abs(onFast[d] - onSlow[d])).toBeLessThanOrEqual(1e-12 * onSlow[d]);
-        for (let j = 0; j < 5; j++) expect(Math.abs(fast.state[j] - slow.state[j])).toBeLessThanOrEqual(1e-12 * 2e6);
+      for (const withTrajectory of [false, true]) {
+        const fast = createSeirIntegrator(2, 2, substeps);
+        const slow = createSeirIntegrator(2, 2, substeps, { generic: true });
+        fast.seed(2e6, 30, 2.7, 5.5);
+        slow.seed(2e6, 30, 2.7, 5.5);
+        const onFast = new Float64Array(days);
+        const onSlow = new Float64Array(days);
+        const infFast = withTrajectory ? new Float64Array(days) : null;
+        const sFast = withTrajectory ? new Float64Array(days) : null;
+        const infSlow = new Float64Array(days);
+        const sSlow = new Float64Array(days);
+        // in two pieces, to cover resuming and a non-zero start
+        expect(fast.run(betaOverN, 0, 120, 2.7, 5.5, infFast, onFast, sFast)).toBe(true);
+        expect(fast.run(betaOverN, 120, 80, 2.7, 5.5, infFast, onFast, sFast)).toBe(true);
+        expect(slow.run(betaOverN, 0, days, 2.7, 5.5, infSlow, onSlow, sSlow)).toBe(true);
+        const pairs: Array<[Float64Array, Float64Array]> = [[onFast, onSlow]];
+        if (infFast !== null && sFast !== null) pairs.push([infFast, infSlow], [sFast, sSlow]);
+        if ((substeps & (substeps - 1)) === 0) {
+          for (const [a, b] of pairs) expect(Array.from(a)).toEqual(Array.from(b));
+          expect(Array.from(fast.state)).toEqual(Array.from(slow.state));
+        } else {
+          for (const [a, b] of pairs) for (let d = 0; d < days; d++) expect(Math.abs(a[d]! - b[d]!)).toBeLessThanOrEqual(1e-12 * b[d]!);
+          for (let j = 0; j < 5; j++) expect(Math.abs(fast.state[j] - slow.state[j])).toBeLessThanOrEqual(1e-12 * 2e6);
+        }
       }
     }
   });
 
-  it('accepts or rejects the same inputs whether or not daily infections are asked for', () => {
+  it('accepts or rejects the same inputs whether or not daily infections are asked for, on either path', () => {
     // Whether a parameter vector is possible must not depend on the outputs requested: the
     // log density runs onsets only, derived outputs ask for infections too. Here (R0 = 300,
     // far outside any prior, but reachable by an optimiser) RK4 makes S grow on day 3, so that
     // day's infections are negative: the generic path returns false on that.
-    const withInf = createSeirIntegrator(2, 2, 4);
-    const onsetsOnly = createSeirIntegrator(2, 2, 4);
-    withInf.seed(1e6, 16000, 9, 0.8);
-    onsetsOnly.seed(1e6, 16000, 9, 0.8);
     const betaOverN = new Float64Array(3).fill(380 / 1e6);
     const infections = new Float64Array(3);
-    const a = withInf.run(betaOverN, 0, 3, 9, 0.8, infections, new Float64Array(3), null);
-    const b = onsetsOnly.run(betaOverN, 0, 3, 9, 0.8, null, new Float64Array(3), null);
+    const runs = [
+      { seir: createSeirIntegrator(2, 2, 4, { generic: true }), inf: infections },
+      { seir: createSeirIntegrator(2, 2, 4), inf: new Float64Array(3) },
+      { seir: createSeirIntegrator(2, 2, 4), inf: null },
+    ].map(({ seir, inf }) => {
+      seir.seed(1e6, 16000, 9, 0.8);
+      return seir.run(betaOverN, 0, 3, 9, 0.8, inf, new Float64Array(3), null);
+    });
     expect(infections[2]).toBeLessThan(0); // the premise of the case (observed -6863)
-    expect(b).toBe(a);
+    expect(runs[1]).toBe(runs[0]);
+    expect(runs[2]).toBe(runs[0]);
   });
 
   it('returns false, never throws, on absurd inputs', () => {

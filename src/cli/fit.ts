@@ -11,6 +11,7 @@ import { resolvePriorSet, resolvePriorSetPath } from '../io/priors.js';
 import { prepareOutputDir, OutputSet } from '../io/atomic.js';
 import { fitPosterior, fitDailyColumns, prepareFit, DEFAULT_SAMPLER, type FitResult, type SamplerOptions, type PreparedFit } from '../inference/fit.js';
 import { createChainPool } from '../inference/worker-pool.js';
+import { availableParallelism } from 'node:os';
 import { modelFromInput } from '../inference/chain-job.js';
 import type { ChainSnapshot } from '../inference/chain.js';
 import { CHECKPOINT_FILE, readCheckpoint, removeCheckpoint, writeCheckpoint, type Checkpoint, type RunFingerprint } from '../io/checkpoint.js';
@@ -187,7 +188,10 @@ export async function fitSeries(
       `${series.region !== null ? ` of ${series.region}` : ''}: ${o.chains} chains x (${o.warmup} warm-up + ${o.draws * o.thin}) iterations`,
   );
   const iterationsDone = new Map<number, number>();
-  const totalIterations = o.chains * (o.warmup + o.draws * o.thin);
+  const perChain = o.warmup + o.draws * o.thin;
+  const totalIterations = o.chains * perChain;
+  const cores = availableParallelism();
+  let preloadReport = o.report && o.threads > 0;
   const snapshots = new Map<number, ChainSnapshot>();
   // the chains' workers start loading now, while this thread looks for the mode
   const pool = createChainPool(o.threads, o.chains);
@@ -244,7 +248,18 @@ export async function fitSeries(
       progress: (chain, iteration) => {
         iterationsDone.set(chain, iteration);
         let done = 0;
-        for (const v of iterationsDone.values()) done += v;
+        let finished = 0;
+        for (const v of iterationsDone.values()) {
+          done += v;
+          if (v >= perChain) finished += 1;
+        }
+        // once a core is left idle by the chains, load the report's code on it (vega and the
+        // chart specifications take most of a second to load), so that the report after the
+        // run waits less; a failed load surfaces when the report is made
+        if (preloadReport && (o.threads < cores || finished > o.chains - o.threads)) {
+          preloadReport = false;
+          import('./report.js').catch(() => {});
+        }
         const pct = Math.floor((100 * done) / totalIterations);
         const bar = '#'.repeat(Math.floor(pct / 4)).padEnd(25, '.');
         reporter.progress(`sampling [${bar}] ${pct}%`);

@@ -22,27 +22,24 @@ export interface SampleSummary {
 
 /** Mean, sd (n - 1 denominator) and the requested quantiles; sorts a copy of the values. */
 export function summarizeSample(values: Float64Array, levels: readonly number[]): SampleSummary {
+  const sorted = Float64Array.from(values).sort();
+  return { ...meanSd(values), quantiles: levels.map((p) => quantileSorted(sorted, p)) };
+}
+
+/** As {@link summarizeSample}, for values already in ascending order (NaN last): no copy, no sort. */
+export function summarizeSorted(sorted: Float64Array, levels: readonly number[]): SampleSummary {
+  return { ...meanSd(sorted), quantiles: levels.map((p) => quantileSorted(sorted, p)) };
+}
+
+/** Mean and sd (n - 1 denominator; NaN for fewer than 2 values), two passes in the values' order. */
+function meanSd(values: Float64Array): { mean: number; sd: number } {
   const n = values.length;
   let mean = 0;
   for (let i = 0; i < n; i++) mean += values[i];
   mean /= n;
   let ss = 0;
   for (let i = 0; i < n; i++) ss += (values[i] - mean) ** 2;
-  const sd = n > 1 ? Math.sqrt(ss / (n - 1)) : NaN;
-  const sorted = Float64Array.from(values).sort();
-  return { mean, sd, quantiles: levels.map((p) => quantileSorted(sorted, p)) };
-}
-
-/** As {@link summarizeSample}, for values already in ascending order (NaN last): no copy, no sort. */
-export function summarizeSorted(sorted: Float64Array, levels: readonly number[]): SampleSummary {
-  const n = sorted.length;
-  let mean = 0;
-  for (let i = 0; i < n; i++) mean += sorted[i];
-  mean /= n;
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += (sorted[i] - mean) ** 2;
-  const sd = n > 1 ? Math.sqrt(ss / (n - 1)) : NaN;
-  return { mean, sd, quantiles: levels.map((p) => quantileSorted(sorted, p)) };
+  return { mean, sd: n > 1 ? Math.sqrt(ss / (n - 1)) : NaN };
 }
 
 /** Column name of a quantile level: 0.05 -> q05, 0.5 -> q50, 0.025 -> q2.5, 0.975 -> q97.5. */

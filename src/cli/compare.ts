@@ -23,7 +23,7 @@ import { identification, type Identification } from '../outputs/identification.j
 import { longCsv } from '../outputs/draw-summary.js';
 import { formatNumber } from '../outputs/format.js';
 import { VERSION } from '../version.js';
-import { CAUTION, selectSeries } from './fit.js';
+import { CAUTION, samplingOptionsRecord, selectSeries } from './fit.js';
 import type { Reporter } from './reporter.js';
 import { backtestOrigins, backtestPriorSet, MIN_TRAINING_DAYS, type BacktestResult } from '../evaluation/backtest.js';
 import { pairedWisDifference, rankPriorSets, summarizeByHorizon, summarizeScores, type PairedDifference } from '../evaluation/comparison.js';
@@ -238,15 +238,7 @@ export async function runCompare(casesFile: string, o: CompareCliOptions, report
     input: { file: basename(casesFile), sha256: data.sha256, region: series.region, first_date: series.firstDate, last_date: lastDate, days: T, population },
     prior_sets: priors.map((p) => ({ label: p.label, file: basename(p.file), set: p.set })),
     options: {
-      chains: o.chains,
-      warmup: o.warmup,
-      draws: o.draws,
-      thin: o.thin,
-      seed: o.seed,
-      quantiles: o.quantiles,
-      date_column: o.dateColumn,
-      count_column: o.countColumn,
-      region_column: o.regionColumn,
+      ...samplingOptionsRecord(o),
       window: o.window,
       every: o.every,
       horizon: o.horizon,

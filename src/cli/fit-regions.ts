@@ -30,7 +30,7 @@ import { failedOutcome, type RegionOutcome, type RegionTask } from '../regions/r
 import { COMBINED_FILES, LAST_DAY_QUANTITY, combineTables, regionRow, regionsCsv, summaryFields, tableHeaders } from '../regions/combined.js';
 import { countStatuses, namesDigest, regionsRunJson, REGIONS_LAYOUT, type RegionRecord, type RegionsRun } from '../regions/run-record.js';
 import { checkForecastOptionsNeedHorizon } from './forecast.js';
-import { CAUTION, type FitCliOptions } from './fit.js';
+import { CAUTION, samplingOptionsRecord, type FitCliOptions } from './fit.js';
 import type { Reporter } from './reporter.js';
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
@@ -226,15 +226,7 @@ export async function runFitRegions(casesFile: string, o: FitCliOptions, reporte
 /** The options of run.json: those that shape the results (not threads, not the output folder). */
 export function runOptions(o: FitCliOptions): Record<string, unknown> {
   return {
-    chains: o.chains,
-    warmup: o.warmup,
-    draws: o.draws,
-    thin: o.thin,
-    seed: o.seed,
-    quantiles: o.quantiles,
-    date_column: o.dateColumn,
-    count_column: o.countColumn,
-    region_column: o.regionColumn,
+    ...samplingOptionsRecord(o),
     regions: o.regions ?? null,
     require_converged: o.requireConverged,
     horizon: o.horizon,

@@ -67,6 +67,26 @@ export interface FitCliOptions extends ForecastOptions {
 /** The options a run records in run.json (those that shape its results: not threads, not the folder). */
 function runOptionsRecord(o: FitCliOptions): Record<string, unknown> {
   return {
+    ...samplingOptionsRecord(o),
+    require_converged: o.requireConverged,
+    horizon: o.horizon,
+    scenarios: o.scenarios === undefined ? null : basename(o.scenarios),
+    hold: o.hold,
+    scale: o.scale ?? null,
+    from: o.from ?? null,
+    until: o.until ?? null,
+    triangle: o.triangle === undefined ? null : basename(o.triangle),
+  };
+}
+
+/**
+ * The options every fitting command records first in run.json (sampler, seed, quantiles, input
+ * columns), under the same names and in the same order.
+ */
+export function samplingOptionsRecord(
+  o: Pick<FitCliOptions, 'chains' | 'warmup' | 'draws' | 'thin' | 'seed' | 'quantiles' | 'dateColumn' | 'countColumn' | 'regionColumn'>,
+): Record<string, unknown> {
+  return {
     chains: o.chains,
     warmup: o.warmup,
     draws: o.draws,
@@ -76,14 +96,6 @@ function runOptionsRecord(o: FitCliOptions): Record<string, unknown> {
     date_column: o.dateColumn,
     count_column: o.countColumn,
     region_column: o.regionColumn,
-    require_converged: o.requireConverged,
-    horizon: o.horizon,
-    scenarios: o.scenarios === undefined ? null : basename(o.scenarios),
-    hold: o.hold,
-    scale: o.scale ?? null,
-    from: o.from ?? null,
-    until: o.until ?? null,
-    triangle: o.triangle === undefined ? null : basename(o.triangle),
   };
 }
 

@@ -220,3 +220,23 @@ export function fmt(x, digits = 3) {
 export function scriptName(moduleUrl) {
   return basename(fileURLToPath(moduleUrl));
 }
+
+/**
+ * How to run a command on one core only, for the per-core throughput figures: a fit with
+ * --threads 1 on an otherwise idle second core still gets help from it (the JavaScript
+ * engine compiles and collects garbage on background threads, and the fit loads its report
+ * code while the chains run), so "1 thread" on the whole machine is more than one core's
+ * worth of work. Returns the prefix `['taskset', '-c', CPU]` (the first CPU this process may
+ * run on), or null with the reason when `taskset` (util-linux) is missing or refuses.
+ */
+export function oneCorePrefix() {
+  const probe = spawnSync('taskset', ['-pc', String(process.pid)], { encoding: 'utf8' });
+  if (probe.error || probe.status !== 0) return { prefix: null, reason: 'taskset not available' };
+  // "pid 123's current affinity list: 0,1" or "0-3"
+  const list = /:\s*([0-9][0-9,-]*)\s*$/.exec(probe.stdout.trim());
+  if (list === null) return { prefix: null, reason: `could not read the CPU affinity ("${probe.stdout.trim()}")` };
+  const cpu = list[1].split(/[,-]/)[0];
+  const check = spawnSync('taskset', ['-c', cpu, 'true']);
+  if (check.error || check.status !== 0) return { prefix: null, reason: `taskset -c ${cpu} refused` };
+  return { prefix: ['taskset', '-c', cpu], reason: null };
+}

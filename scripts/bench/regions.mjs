@@ -4,13 +4,15 @@
 // and several regions, two regions are fitted at once, each with its chains in its own thread
 // (cli/fit-regions.ts), so everything a fit does, its summaries and report included, runs in
 // parallel. Figures: wall time, regions per minute, the ratio of the two, and whether the
-// combined table (regions.csv) is the same bytes for both thread counts.
+// combined table (regions.csv) is the same bytes for both thread counts. Where `taskset` can pin
+// a process, the --threads 1 run is repeated on one core only (lib.mjs oneCorePrefix): the
+// per-core figure.
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { CLI, ROOT, fmt, loadAverage, readCsvRows, table, wallSeconds } from './lib.mjs';
+import { CLI, ROOT, fmt, loadAverage, oneCorePrefix, readCsvRows, table, wallSeconds } from './lib.mjs';
 
 const CASES = 'data-demo/districts/cases.csv';
 
@@ -21,7 +23,7 @@ function populationsCsv() {
   return `region,population\n${scenario.places.map((p) => `${field(p.name)},${p.population}`).join('\n')}\n`;
 }
 
-function timedRun(extra, threads) {
+function timedRun(extra, threads, pin = null) {
   const tmp = mkdtempSync(join(tmpdir(), 'waxwane-bench-regions-'));
   try {
     const populations = join(tmp, 'populations.csv');
@@ -30,12 +32,14 @@ function timedRun(extra, threads) {
     const args = ['fit', CASES, '--populations', populations, '--seed', '7', ...extra, '--out', out, '--quiet', '--force', '--threads', String(threads)];
     const load = loadAverage()[0];
     const t0 = wallSeconds();
-    const r = spawnSync(process.execPath, [CLI, ...args], { cwd: ROOT, encoding: 'utf8' });
+    const command = [...(pin ?? []), process.execPath, CLI, ...args];
+    const r = spawnSync(command[0], command.slice(1), { cwd: ROOT, encoding: 'utf8' });
     const wall = wallSeconds() - t0;
     if (r.status !== 0) throw new Error(`waxwane ${args.join(' ')} failed (exit ${r.status}): ${(r.stderr ?? '').trim()}`);
     const regions = readCsvRows(join(out, 'regions.csv'));
     return {
       threads,
+      oneCore: pin !== null,
       wallSeconds: wall,
       regions: regions.length,
       regionsPerMinute: (60 * regions.length) / wall,
@@ -50,23 +54,32 @@ function timedRun(extra, threads) {
 export async function measureRegions(ctx) {
   // --quick: a short run, a smoke test of the path
   const extra = ctx.quick ? ['--warmup', '500', '--draws', '100', '--thin', '2'] : [];
+  const pin = oneCorePrefix();
   const runs = {};
   for (const threads of [2, 1]) {
     ctx.progress(`four districts: --threads ${threads}`);
     runs[threads] = timedRun(extra, threads);
   }
+  if (pin.prefix !== null) {
+    ctx.progress(`four districts: --threads 1 on one core (${pin.prefix.join(' ')})`);
+    runs.oneCore = timedRun(extra, 1, pin.prefix);
+  }
   const two = runs[2];
   const one = runs[1];
+  const oneCore = runs.oneCore ?? null;
   const speedup = one.wallSeconds / two.wallSeconds;
-  const identical = one.hash === two.hash;
+  const perCoreSpeedup = oneCore === null ? null : oneCore.wallSeconds / two.wallSeconds;
+  const identical = one.hash === two.hash && (oneCore === null || oneCore.hash === two.hash);
   const command = ['waxwane', 'fit', CASES, '--populations', 'P.csv', '--seed', '7', ...extra, '--out', 'TMP', '--quiet', '--threads', 'N'].join(' ');
   ctx.print(`Many places at once (${command}; one run per thread count)`);
   ctx.print(
     table(
       ['threads', 'regions', 'wall s', 'regions per minute'],
-      [two, one].map((f) => [f.threads, f.regions, fmt(f.wallSeconds), fmt(f.regionsPerMinute)]),
+      [two, one, oneCore].filter((f) => f !== null).map((f) => [f.oneCore ? `${f.threads}, one core` : f.threads, f.regions, fmt(f.wallSeconds), fmt(f.regionsPerMinute)]),
     ),
   );
   ctx.print(`2 threads vs 1: ${fmt(speedup)}x regions per minute; regions.csv identical across thread counts: ${identical ? 'yes' : 'NO'}`);
-  return { command, threads2: two, threads1: one, speedup, identicalAcrossThreads: identical };
+  if (oneCore !== null) ctx.print(`2 threads on 2 cores vs 1 thread on one core: ${fmt(perCoreSpeedup)}x regions per minute`);
+  else ctx.print(`(no one-core run: ${pin.reason})`);
+  return { command, threads2: two, threads1: one, threads1OneCore: oneCore, speedup, perCoreSpeedup, identicalAcrossThreads: identical };
 }

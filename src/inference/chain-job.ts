@@ -14,7 +14,7 @@ import { ChainRunner, type ChainResult, type ChainSnapshot } from './chain.js';
 import type { AdaptationSettings } from './adaptation.js';
 import type { PooledShape } from './pooled-adaptation.js';
 import { createWalkScaleMove, type AuxiliaryStep } from './walk-scale-move.js';
-import { chainDailyDraws, sortedColumns, type SortedDailyColumns } from '../model/derived.js';
+import { chainDailyColumns, type SortedDailyColumns } from '../model/derived.js';
 
 /**
  * Random-walk iterations between two walk-scale moves (walk-scale-move.ts). A move costs two
@@ -62,8 +62,8 @@ export interface ChainJob {
   stopAt?: number;
   /**
    * compute the daily derived quantities of the draws as the chain ends, as sorted columns
-   * (model/derived.ts chainDailyDraws and sortedColumns: the same numbers as computing them
-   * later), so that work is spread over the threads too
+   * (model/derived.ts chainDailyColumns: the same numbers as computing them later), so that
+   * work is spread over the threads too
    */
   derived?: boolean;
 }
@@ -173,5 +173,5 @@ export function runChainJob(job: ChainJob, events: ChainJobEvents = {}, wantSnap
     result.logDensity[k] = model.logDensity(theta);
   }
   if (job.derived !== true) return { ...result, draws };
-  return { ...result, draws, dailyColumns: sortedColumns(chainDailyDraws(model, draws, job.model.firstWeekday, job.seed), model.days) };
+  return { ...result, draws, dailyColumns: chainDailyColumns(model, draws, job.model.firstWeekday, job.seed) };
 }

@@ -17,7 +17,7 @@ import { laplaceCovariance, dispersedStarts } from './laplace.js';
 import { createChainPool, type ChainPool } from './worker-pool.js';
 import type { EpidemicModel } from '../model/posterior.js';
 import { createSamplingSpace } from '../model/sampling-space.js';
-import { chainDailyDraws, mergeSortedColumns, sortedColumns, type SortedDailyColumns } from '../model/derived.js';
+import { chainDailyColumns, mergeSortedColumns, type SortedDailyColumns } from '../model/derived.js';
 
 export interface SamplerOptions {
   chains: number;
@@ -212,7 +212,7 @@ export function fitDailyColumns(fit: FitResult): SortedDailyColumns {
   const days = fit.model.days;
   return mergeSortedColumns(
     fit.chains.map(
-      (c, i) => c.dailyColumns ?? sortedColumns(chainDailyDraws(fit.model, c.draws, fit.jobs[i]!.model.firstWeekday, fit.jobs[i]!.seed), days),
+      (c, i) => c.dailyColumns ?? chainDailyColumns(fit.model, c.draws, fit.jobs[i]!.model.firstWeekday, fit.jobs[i]!.seed),
     ),
     days,
   );

@@ -9,6 +9,7 @@ import { fillWalk, fillBetaOverN } from './transmission.js';
 import { runTrajectory, drawNegBin, type Trajectory } from './trajectory.js';
 import { growthRate } from './growth.js';
 import { createRng, deriveSeed, type Rng } from '../util/rng.js';
+import { sortFloat64 } from '../util/float-sort.js';
 
 export const DAILY_QUANTITIES = [
   'transmission_rate',
@@ -78,6 +79,15 @@ export function trajectoryOf(
  * `rng` gives the negative-binomial noise of the predicted reports.
  */
 export function dailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekday: number, rng: Rng): DailyDraws {
+  return fillDaily(model, draws, firstWeekday, rng, false);
+}
+
+/**
+ * The daily quantities of every draw into fresh matrices: draw-major (draw d, day t at
+ * d * days + t) or, with `dayMajor`, day-major (t * draws + d). The same numbers either way,
+ * drawn in the same order.
+ */
+function fillDaily(model: EpidemicModel, draws: Float64Array, firstWeekday: number, rng: Rng, dayMajor: boolean): DailyDraws {
   const dim = model.layout.dim;
   const n = draws.length / dim;
   const T = model.days;
@@ -85,23 +95,26 @@ export function dailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekd
   const out = Object.fromEntries(DAILY_QUANTITIES.map((q) => [q, new Float64Array(n * T)])) as DailyDraws;
   const m = model.priorSet.model.latent_stages;
   const nI = model.priorSet.model.infectious_stages;
+  // index of (draw d, day t): d * drawStride + t * dayStride
+  const drawStride = dayMajor ? 1 : T;
+  const dayStride = dayMajor ? n : 1;
   for (let d = 0; d < n; d++) {
     const theta = draws.subarray(d * dim, (d + 1) * dim);
     const { params: p, traj } = trajectoryOf(model, theta, firstWeekday);
-    const row = d * T;
     for (let t = 0; t < T; t++) {
+      const i = d * drawStride + t * dayStride;
       const beta = traj.transmissionRate[S0 + t];
       const r0 = beta * p.infectious_days;
       const reff = (r0 * traj.susceptible[S0 + t]) / model.population;
       const mu = traj.expectedReports[t];
-      out.transmission_rate[row + t] = beta;
-      out.basic_reproduction[row + t] = r0;
-      out.effective_reproduction[row + t] = reff;
-      out.growth_rate[row + t] = growthRate(reff, p.latent_days, p.infectious_days, m, nI);
-      out.infections[row + t] = traj.infections[S0 + t];
-      out.onsets[row + t] = traj.onsets[S0 + t];
-      out.expected_reports[row + t] = mu;
-      out.predicted_reports[row + t] = drawNegBin(rng, mu, p.dispersion);
+      out.transmission_rate[i] = beta;
+      out.basic_reproduction[i] = r0;
+      out.effective_reproduction[i] = reff;
+      out.growth_rate[i] = growthRate(reff, p.latent_days, p.infectious_days, m, nI);
+      out.infections[i] = traj.infections[S0 + t];
+      out.onsets[i] = traj.onsets[S0 + t];
+      out.expected_reports[i] = mu;
+      out.predicted_reports[i] = drawNegBin(rng, mu, p.dispersion);
     }
   }
   return out;
@@ -117,6 +130,21 @@ const PREDICTIVE_STREAM = 0x9e37;
  */
 export function chainDailyDraws(model: EpidemicModel, draws: Float64Array, firstWeekday: number, chainSeed: number): DailyDraws {
   return dailyDraws(model, draws, firstWeekday, createRng(deriveSeed(chainSeed, PREDICTIVE_STREAM)));
+}
+
+/**
+ * {@link sortedColumns} of {@link chainDailyDraws}, the same numbers, computed straight into
+ * day-major columns (no transpose) and sorted by util/float-sort.ts: what a chain's thread
+ * hands back as the chain ends (inference/chain-job.ts).
+ */
+export function chainDailyColumns(model: EpidemicModel, draws: Float64Array, firstWeekday: number, chainSeed: number): SortedDailyColumns {
+  const daily = fillDaily(model, draws, firstWeekday, createRng(deriveSeed(chainSeed, PREDICTIVE_STREAM)), true);
+  const n = draws.length / model.layout.dim;
+  for (const q of DAILY_QUANTITIES) {
+    const m = daily[q];
+    for (let t = 0; t < model.days; t++) sortFloat64(m.subarray(t * n, (t + 1) * n));
+  }
+  return daily as SortedDailyColumns;
 }
 
 /**
@@ -145,14 +173,44 @@ export function sortedColumns(daily: DailyDraws, days: number): SortedDailyColum
   ) as SortedDailyColumns;
 }
 
-/** a before b in ascending order with NaN last (the order of Float64Array.prototype.sort, -0 and 0 aside) */
-function before(a: number, b: number): boolean {
-  return a < b || (b !== b && a === a);
+/** Length of the part of a sorted column before its NaNs (which sort last). */
+function numberCount(col: Float64Array): number {
+  let n = col.length;
+  while (n > 0 && col[n - 1] !== col[n - 1]) n--;
+  return n;
+}
+
+/**
+ * Merges the sorted columns `a` and `b` into `out` (length a + b), in the order of
+ * Float64Array.prototype.sort: NaN last, -0 before +0; on other ties `a` first.
+ */
+function mergeTwo(a: Float64Array, b: Float64Array, out: Float64Array): void {
+  const na = numberCount(a);
+  const nb = numberCount(b);
+  let i = 0;
+  let j = 0;
+  let k = 0;
+  while (i < na && j < nb) {
+    const x = a[i]!;
+    const y = b[j]!;
+    // y first when smaller, or -0 against +0 (equal to <, apart in the sort's order)
+    if (y < x || (y === x && y === 0 && 1 / y < 1 / x)) {
+      out[k++] = y;
+      j++;
+    } else {
+      out[k++] = x;
+      i++;
+    }
+  }
+  while (i < na) out[k++] = a[i++]!;
+  while (j < nb) out[k++] = b[j++]!;
+  out.fill(NaN, k);
 }
 
 /**
  * The sorted columns of several sets of draws over the same `days` days merged into the sorted
- * columns of all of them (a merge per day, no sort).
+ * columns of all of them: per day, the parts merged pairwise in a fixed tree (the first with the
+ * second, the third with the fourth, then the two results, ...), no sort.
  */
 export function mergeSortedColumns(parts: readonly SortedDailyColumns[], days: number): SortedDailyColumns {
   return Object.fromEntries(
@@ -160,25 +218,28 @@ export function mergeSortedColumns(parts: readonly SortedDailyColumns[], days: n
       const sizes = parts.map((p) => p[q].length / days);
       const total = sizes.reduce((a, b) => a + b, 0);
       const out = new Float64Array(total * days);
-      let run = new Float64Array(total);
-      let spare = new Float64Array(total);
+      // two scratch areas as long as a whole column, merged level by level between them
+      const bufA = new Float64Array(total);
+      const bufB = new Float64Array(total);
       for (let t = 0; t < days; t++) {
-        // fold the parts in one by one: run holds the merge of the first i parts
-        let len = 0;
-        for (let i = 0; i < parts.length; i++) {
-          const col = parts[i]![q].subarray(t * sizes[i]!, (t + 1) * sizes[i]!);
-          let a = 0;
-          let b = 0;
-          let k = 0;
-          while (a < len && b < col.length) spare[k++] = before(col[b]!, run[a]!) ? col[b++]! : run[a++]!;
-          while (a < len) spare[k++] = run[a++]!;
-          while (b < col.length) spare[k++] = col[b++]!;
-          len = k;
-          const swap = run;
-          run = spare;
-          spare = swap;
+        let level: Float64Array[] = parts.map((p, i) => p[q].subarray(t * sizes[i]!, (t + 1) * sizes[i]!));
+        let into = bufA;
+        while (level.length > 1) {
+          const next: Float64Array[] = [];
+          let offset = 0;
+          for (let i = 0; i < level.length; i += 2) {
+            const a = level[i]!;
+            const b = level[i + 1];
+            const dest = into.subarray(offset, offset + a.length + (b?.length ?? 0));
+            if (b === undefined) dest.set(a);
+            else mergeTwo(a, b, dest);
+            next.push(dest);
+            offset += dest.length;
+          }
+          level = next;
+          into = into === bufA ? bufB : bufA;
         }
-        out.set(run.subarray(0, total), t * total);
+        if (level.length === 1) out.set(level[0]!, t * total);
       }
       return [q, out];
     }),

@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // `npm run bench`: the benchmark suite. Times the compiled engine in dist/ (build first:
-// `npx tsc -p tsconfig.json`), prints each figure and a table against the performance targets,
+// `npm run build`), prints each figure and a table against the performance targets,
 // and saves everything, with the machine it ran on, as JSON under bench-results/. A missed
 // target is reported, never an error: the exit code is 1 only when a measurement itself failed.
 //
@@ -179,7 +179,7 @@ async function main() {
     return;
   }
   if (!existsSync(join(ROOT, 'dist', 'cli', 'main.js'))) {
-    console.error('bench: dist/ not found; build first with `npx tsc -p tsconfig.json`');
+    console.error('bench: dist/ not found; build first with `npm run build`');
     process.exit(2);
   }
   const started = new Date();
@@ -196,7 +196,7 @@ async function main() {
   );
   print(`source: commit ${source.commit ?? 'unknown'}${source.changedFiles ? `, ${source.changedFiles} changed files` : ''}`);
   if (source.staleDist.length > 0) {
-    print(`warning: dist/ is older than ${source.staleDist.length} source files (e.g. ${source.staleDist[0]}); rebuild with \`npx tsc -p tsconfig.json\``);
+    print(`warning: dist/ is older than ${source.staleDist.length} source files (e.g. ${source.staleDist[0]}); rebuild with \`npm run build\``);
   }
 
   const reference = opts.only.some((p) => p === 'density' || p === 'scaling') ? compileReference() : { exe: null, reason: 'not needed' };

@@ -4,18 +4,13 @@
  * whole stream is a function of the generator state, which can be captured and restored
  * (checkpoints) and which is derived from a single run seed (reproducibility).
  */
-import { createRequire } from 'node:module';
-import { mersenneTwister } from './stdlib.js';
-
-const require = createRequire(import.meta.url);
+import { mersenneTwister, stdlib } from './stdlib.js';
 
 type Sampler1 = (a: number) => number;
 // @stdlib's Poisson sampler draws nothing from the stream when it is built, so a restored
 // state replays it exactly. (Its normal and gamma samplers take one draw at construction,
 // which would shift a restored stream; those two are written out below.)
-const poissonFactory: { factory(options: { prng: () => number }): Sampler1 } = require(
-  '@stdlib/random/base/poisson',
-);
+const poissonFactory = stdlib<{ factory(options: { prng: () => number }): Sampler1 }>('@stdlib/random/base/poisson');
 
 export interface Rng {
   /** Uniform on [0, 1). */

@@ -9,7 +9,7 @@
  */
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
-import { fromCSV } from 'arquero';
+import { fromCSV } from '../util/arquero.js';
 import { WaxwaneError, inputError } from '../errors.js';
 import { isoFromDay, parseIsoDate } from './dates.js';
 

@@ -1,8 +1,8 @@
 /**
  * What the build's bundler (scripts/bundle-vendor.mjs) puts in dist/vendor/, listed apart from
  * the modules that load the bundles so that the bundler can read it without loading them: the
- * @stdlib modules the project uses (util/stdlib.ts) and the chart library's file
- * (outputs/report/render.ts).
+ * @stdlib modules the project uses (util/stdlib.ts), arquero's CSV reader (util/arquero.ts) and
+ * the chart library (outputs/report/render.ts).
  */
 export const STDLIB_MODULES = [
   '@stdlib/math/base/special/gammaln',
@@ -25,3 +25,6 @@ export const STDLIB_BUNDLE = 'stdlib-bundle.cjs';
 
 /** File name of the bundle of vega and vega-lite in dist/vendor/ (outputs/report/render.ts). */
 export const VEGA_BUNDLE = 'vega-bundle.mjs';
+
+/** File name of the bundle of arquero's fromCSV in dist/vendor/ (util/arquero.ts). */
+export const ARQUERO_BUNDLE = 'arquero-bundle.mjs';

@@ -6,7 +6,7 @@ import { existsSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { STDLIB_BUNDLE, STDLIB_MODULES, VEGA_BUNDLE } from '../../src/util/vendor-bundles.js';
+import { ARQUERO_BUNDLE, STDLIB_BUNDLE, STDLIB_MODULES, VEGA_BUNDLE } from '../../src/util/vendor-bundles.js';
 
 const require = createRequire(import.meta.url);
 const vendor = (name: string) => fileURLToPath(new URL(`../../dist/vendor/${name}`, import.meta.url));
@@ -16,12 +16,14 @@ describe('dist/vendor bundles', () => {
   it('exist after the build', () => {
     expect(existsSync(vendor(STDLIB_BUNDLE)), 'run "npm run build" (npm test does it first)').toBe(true);
     expect(existsSync(vendor(VEGA_BUNDLE)), 'run "npm run build" (npm test does it first)').toBe(true);
+    expect(existsSync(vendor(ARQUERO_BUNDLE)), 'run "npm run build" (npm test does it first)').toBe(true);
   });
 
   it('are what the compiled tool loads', async () => {
     const dist = (path: string) => import(new URL(`../../dist/${path}`, import.meta.url).href);
     expect((await dist('util/stdlib.js')).STDLIB_BUNDLED).toBe(true);
     expect((await dist('outputs/report/render.js')).VEGA_BUNDLED).toBe(true);
+    expect((await dist('util/arquero.js')).ARQUERO_BUNDLED).toBe(true);
   });
 
   it('hold every listed @stdlib module, giving the same values as the packages', () => {
@@ -80,5 +82,15 @@ describe('dist/vendor bundles', () => {
     const [a, b] = [await draw(bundled), await draw(packaged)];
     expect(a).toContain('<svg');
     expect(a).toBe(b);
+  });
+
+  it("hold arquero's CSV reader, reading as the package does", async () => {
+    type FromCsv = typeof import('arquero').fromCSV;
+    const bundled = ((await import(pathToFileURL(vendor(ARQUERO_BUNDLE)).href)) as { fromCSV: FromCsv }).fromCSV;
+    const { fromCSV } = await import('arquero');
+    const text = 'date,cases,region\n2026-01-01,12,"North, upper"\n2026-01-02,,"say ""hi"""\n2026-01-03,7,\n';
+    const a = bundled(text, { autoType: false }).objects();
+    expect(a).toHaveLength(3);
+    expect(a).toEqual(fromCSV(text, { autoType: false }).objects());
   });
 });

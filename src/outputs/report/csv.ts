@@ -6,7 +6,7 @@
  * WaxwaneError naming the file, the line and the column.
  */
 import { readFileSync } from 'node:fs';
-import { fromCSV } from 'arquero';
+import { fromCSV } from '../../util/arquero.js';
 import { WaxwaneError, inputError } from '../../errors.js';
 
 /** A CSV table as text: the header and one array of fields per column. */

@@ -18,7 +18,6 @@ interface ChartLibrary {
   compile: typeof import('vega-lite').compile;
 }
 
-
 /**
  * vega and vega-lite: from the one-file bundle the build writes (scripts/bundle-vendor.mjs,
  * dist/vendor/vega-bundle.mjs: the same code, loaded in well under half the time of the
